@@ -1,0 +1,1 @@
+//! Bodies of a system and their states from mean elements.

@@ -1,0 +1,1 @@
+//! Lambert's two-point boundary-value problem.

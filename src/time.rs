@@ -1,0 +1,1 @@
+//! Epochs in Barycentric Dynamical Time (TDB).

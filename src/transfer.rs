@@ -1,0 +1,1 @@
+//! One transfer between two bodies of a system.
