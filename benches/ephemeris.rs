@@ -1,0 +1,2 @@
+//! Benchmarks: ephemeris (criterion).
+fn main() {}

@@ -1,0 +1,2 @@
+//! Benchmarks: lambert (criterion).
+fn main() {}

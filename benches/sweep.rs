@@ -1,0 +1,2 @@
+//! Benchmarks: sweep (criterion).
+fn main() {}
