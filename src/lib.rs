@@ -15,9 +15,12 @@
 //! | module | what it holds | method |
 //! |---|---|---|
 //! | [`time`] | epochs in TDB, parsing and printing | hifitime |
+//! | [`opportunity`] | bracketing opportunities by Hohmann phasing | Kepler's third law |
 //! | [`orbit`] | two-body states, universal-variable propagation, elements from a state | Bate, Mueller & White (1971) ch. 4-5 |
 //! | [`ephemeris`] | mean-element bodies, system files, Kepler's equation | Standish, *Keplerian Elements for Approximate Positions of the Major Planets* |
 //! | [`lambert`] | Lambert's two-point boundary-value problem | Izzo (2015) |
+//! | [`export`] | atomic file writing | temp file, then rename |
+//! | [`sweep`] | the departure x arrival grid, in parallel | rayon over departure rows |
 //! | [`transfer`] | one transfer between two bodies: C3, DLA, RLA, v-infinity, delta-v | patched conics |
 //!
 //! ## Units
@@ -35,8 +38,11 @@
 
 pub mod ephemeris;
 pub mod error;
+pub mod export;
 pub mod lambert;
+pub mod opportunity;
 pub mod orbit;
+pub mod sweep;
 pub mod time;
 pub mod transfer;
 

@@ -14,3 +14,16 @@ pub struct State {
     /// Velocity, km/s.
     pub v_km_s: Vector3<f64>,
 }
+#[allow(missing_docs)]
+#[derive(Debug)]
+pub struct Conic {
+    pub a_km: f64,
+    pub e: f64,
+    pub i_deg: f64,
+    pub node_deg: f64,
+    pub arg_peri_deg: f64,
+}
+#[allow(missing_docs)]
+pub fn conic_from_state(_s: &State, _mu: f64) -> Result<Conic, crate::lambert::LambertError> {
+    unimplemented!()
+}

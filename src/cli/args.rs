@@ -1,0 +1,204 @@
+//! Raw command-line arguments, close to what the user typed.
+//!
+//! Building these only parses; files are read and values validated in
+//! [`super::input`] and the commands.
+
+use std::path::PathBuf;
+
+use clap::{Parser, Subcommand};
+
+/// Transfer-window design from analytic mean-element ephemerides.
+///
+/// Figures are preliminary patched-conic design values; they do not replace
+/// a mission's own navigation and flight-dynamics process.
+#[derive(Debug, Parser)]
+#[command(name = "synodic", version, about, long_about = None)]
+pub struct Args {
+    /// What to do.
+    #[command(subcommand)]
+    pub command: Command,
+}
+
+/// The subcommands.
+#[derive(Debug, Subcommand)]
+pub enum Command {
+    /// List a system's bodies: elements, periods and synodic periods.
+    ///
+    /// Example: synodic bodies --system my-system.toml
+    Bodies {
+        /// System file (TOML); the built-in demo system when omitted.
+        #[arg(long, value_name = "FILE")]
+        system: Option<PathBuf>,
+        /// Print JSON instead of a table.
+        #[arg(long)]
+        json: bool,
+    },
+    /// Solve Lambert's problem for one geometry, or a CSV batch of them.
+    ///
+    /// Units are whatever the inputs use consistently (km, km^3/s^2 and s
+    /// by default).
+    ///
+    /// Example: synodic lambert --mu 398600 --r1 5000,10000,2100
+    /// --r2 -14600,2500,7000 --tof 3600
+    Lambert(LambertArgs),
+    /// One transfer between two bodies on given dates: C3, DLA, RLA,
+    /// v-infinity, delta-v and the transfer orbit.
+    ///
+    /// Example: synodic transfer Tethys-not-a-name... see README
+    Transfer(TransferArgs),
+    /// Sweep departure x arrival dates: C3, DLA, RLA, v-infinity and
+    /// delta-v for every pair, written to grid.csv and summary.json.
+    ///
+    /// With no arguments, runs the demo study on the built-in system.
+    ///
+    /// Example: synodic sweep --depart 2031-01-01..2031-06-30
+    /// --tof-days 120..400 --step-days 2
+    Sweep(SweepArgs),
+}
+
+/// Arguments of `synodic sweep`.
+#[derive(Debug, clap::Args)]
+pub struct SweepArgs {
+    /// Departure body (the demo pair when omitted).
+    #[arg(requires = "to")]
+    pub from: Option<String>,
+    /// Arrival body.
+    pub to: Option<String>,
+    /// System file (TOML); the built-in demo system when omitted.
+    #[arg(long, value_name = "FILE")]
+    pub system: Option<PathBuf>,
+    /// Departure dates START..END (the next opportunity after the system
+    /// epoch when omitted).
+    #[arg(long, value_name = "START..END")]
+    pub depart: Option<String>,
+    /// Arrival dates START..END.
+    #[arg(long, value_name = "START..END", conflicts_with = "tof_days")]
+    pub arrive: Option<String>,
+    /// Times of flight MIN..MAX in days, instead of arrival dates.
+    #[arg(long, value_name = "MIN..MAX")]
+    pub tof_days: Option<String>,
+    /// Grid step in days: one value for both axes, or DEPART,SECOND.
+    #[arg(long, value_name = "D[,D]", default_value = "1")]
+    pub step_days: String,
+    /// Also solve multi-revolution arcs with up to M revolutions.
+    #[arg(long, value_name = "M", default_value_t = 0)]
+    pub revs: u32,
+    /// Worker threads (one per core when omitted). Results do not depend
+    /// on it.
+    #[arg(long, value_name = "N")]
+    pub threads: Option<usize>,
+    /// Altitude of the circular parking orbit at departure (km); 200 km
+    /// when omitted and the body has a GM and radius.
+    #[arg(long, value_name = "KM")]
+    pub park_alt_km: Option<f64>,
+    /// Periapsis altitude of the capture orbit (km); no capture burn when
+    /// omitted.
+    #[arg(long, value_name = "KM")]
+    pub capture_alt_km: Option<f64>,
+    /// Eccentricity of the capture orbit.
+    #[arg(
+        long,
+        value_name = "E",
+        default_value_t = 0.0,
+        requires = "capture_alt_km"
+    )]
+    pub capture_ecc: f64,
+    /// Output folder.
+    #[arg(long, value_name = "DIR", default_value = "synodic-out")]
+    pub out: PathBuf,
+    /// Output files to leave out, comma-separated: grid, chart, windows.
+    #[arg(long, value_name = "LIST", value_delimiter = ',')]
+    pub skip: Vec<String>,
+    /// Refuse grids estimated to need more memory than this (GiB).
+    #[arg(long, value_name = "GIB", default_value_t = 4.0)]
+    pub max_memory_gib: f64,
+    /// Print the summary as JSON.
+    #[arg(long)]
+    pub json: bool,
+    /// No progress bar.
+    #[arg(long)]
+    pub quiet: bool,
+}
+
+/// Arguments of `synodic lambert`.
+#[derive(Debug, clap::Args)]
+pub struct LambertArgs {
+    /// Gravitational parameter of the central body (km^3/s^2).
+    #[arg(long, allow_hyphen_values = true, required_unless_present = "batch")]
+    pub mu: Option<f64>,
+    /// Initial position X,Y,Z (km).
+    #[arg(
+        long,
+        value_name = "X,Y,Z",
+        allow_hyphen_values = true,
+        required_unless_present = "batch"
+    )]
+    pub r1: Option<String>,
+    /// Final position X,Y,Z (km).
+    #[arg(
+        long,
+        value_name = "X,Y,Z",
+        allow_hyphen_values = true,
+        required_unless_present = "batch"
+    )]
+    pub r2: Option<String>,
+    /// Time of flight (s).
+    #[arg(long, allow_hyphen_values = true, required_unless_present = "batch")]
+    pub tof: Option<f64>,
+    /// Also return solutions with up to this many complete revolutions.
+    #[arg(long, default_value_t = 0)]
+    pub revs: u32,
+    /// Solve for retrograde motion (angular momentum along -z).
+    #[arg(long)]
+    pub retrograde: bool,
+    /// Print JSON instead of a table.
+    #[arg(long)]
+    pub json: bool,
+    /// Solve every row of a CSV file
+    /// (header id,mu,r1x,r1y,r1z,r2x,r2y,r2z,tof,revs,prograde).
+    #[arg(long, value_name = "IN.csv", conflicts_with_all = ["mu", "r1", "r2", "tof", "json"])]
+    pub batch: Option<PathBuf>,
+    /// Where to write the batch results (stdout when omitted).
+    #[arg(long, value_name = "OUT.csv", requires = "batch")]
+    pub out: Option<PathBuf>,
+}
+
+/// Arguments of `synodic transfer`.
+#[derive(Debug, clap::Args)]
+pub struct TransferArgs {
+    /// Departure body.
+    pub from: String,
+    /// Arrival body.
+    pub to: String,
+    /// Departure date (YYYY-MM-DD[Thh:mm:ss][ TDB|TT|UTC]; TDB by default).
+    #[arg(long, value_name = "DATE")]
+    pub depart: String,
+    /// Arrival date, same forms as --depart.
+    #[arg(long, value_name = "DATE")]
+    pub arrive: String,
+    /// System file (TOML); the built-in demo system when omitted.
+    #[arg(long, value_name = "FILE")]
+    pub system: Option<PathBuf>,
+    /// Altitude of the circular parking orbit at departure (km); 200 km
+    /// when omitted and the body has a GM and radius.
+    #[arg(long, value_name = "KM")]
+    pub park_alt_km: Option<f64>,
+    /// Periapsis altitude of the capture orbit at arrival (km); no capture
+    /// burn when omitted.
+    #[arg(long, value_name = "KM")]
+    pub capture_alt_km: Option<f64>,
+    /// Eccentricity of the capture orbit.
+    #[arg(
+        long,
+        value_name = "E",
+        default_value_t = 0.0,
+        requires = "capture_alt_km"
+    )]
+    pub capture_ecc: f64,
+    /// Also consider arcs with up to this many complete revolutions.
+    #[arg(long, default_value_t = 0)]
+    pub revs: u32,
+    /// Print JSON instead of a table.
+    #[arg(long)]
+    pub json: bool,
+}

@@ -1,0 +1,28 @@
+//! One file per subcommand.
+
+use super::{Args, CliResult, Command, Outcome};
+
+mod bodies;
+mod lambert;
+mod sweep;
+mod transfer;
+
+/// Run the chosen subcommand.
+pub fn run(args: Args) -> CliResult<Outcome> {
+    match args.command {
+        Command::Bodies { system, json } => bodies::run(system.as_deref(), json),
+        Command::Lambert(a) => lambert::run(&a),
+        Command::Transfer(a) => transfer::run(&a),
+        Command::Sweep(a) => sweep::run(&a),
+    }
+}
+
+/// Print `text` to stdout, reporting a closed pipe as an error the exit
+/// policy treats as success.
+pub fn print(text: &str) -> CliResult<()> {
+    use std::io::Write;
+    let mut out = std::io::stdout().lock();
+    out.write_all(text.as_bytes())?;
+    out.flush()?;
+    Ok(())
+}

@@ -1,0 +1,174 @@
+//! `synodic transfer`: one transfer between two bodies on given dates.
+
+use std::fmt::Write as _;
+
+use serde::Serialize;
+use synodic::orbit::{conic_from_state, State};
+use synodic::transfer::{arcs_between, Figures};
+
+use super::print;
+use crate::cli::args::TransferArgs;
+use crate::cli::input::{body_pair, load_system, parse_epoch, resolve_endpoints};
+use crate::cli::{CliResult, Outcome};
+
+#[derive(Debug, Serialize)]
+struct ArcOut {
+    revs: u32,
+    branch: String,
+    #[serde(rename = "type")]
+    kind: String,
+    transfer_angle_deg: f64,
+    tof_days: f64,
+    c3_km2_s2: f64,
+    vinf_depart_km_s: f64,
+    dla_deg: f64,
+    rla_deg: f64,
+    vinf_arrive_km_s: f64,
+    arrive_dec_deg: f64,
+    arrive_ra_deg: f64,
+    dv_depart_km_s: f64,
+    dv_arrive_km_s: f64,
+    dv_total_km_s: f64,
+    orbit: OrbitOut,
+}
+
+#[derive(Debug, Serialize)]
+struct OrbitOut {
+    a_km: f64,
+    e: f64,
+    i_deg: f64,
+    node_deg: f64,
+    arg_peri_deg: f64,
+}
+
+#[derive(Debug, Serialize)]
+struct Report {
+    system: String,
+    from: String,
+    to: String,
+    depart: String,
+    arrive: String,
+    depart_jd_tdb: f64,
+    arrive_jd_tdb: f64,
+    arcs: Vec<ArcOut>,
+}
+
+pub fn run(args: &TransferArgs) -> CliResult<Outcome> {
+    let system = load_system(args.system.as_deref())?;
+    let (from, to) = body_pair(&system, &args.from, &args.to)?;
+    let depart = parse_epoch(&args.depart, "--depart")?;
+    let arrive = parse_epoch(&args.arrive, "--arrive")?;
+    let ends = resolve_endpoints(
+        &system.bodies[from],
+        &system.bodies[to],
+        args.park_alt_km,
+        args.capture_alt_km,
+        args.capture_ecc,
+    )?;
+    let arcs = arcs_between(&system, from, to, &depart, &arrive, &ends, args.revs)?;
+    let r1 = system.state(from, &depart).r_km;
+    let mu = system.central.mu_km3_s2;
+    let mut out = Vec::with_capacity(arcs.len());
+    for (fig, sol) in &arcs {
+        let conic = conic_from_state(
+            &State {
+                r_km: r1,
+                v_km_s: sol.v1,
+            },
+            mu,
+        )?;
+        out.push(arc_out(
+            fig,
+            OrbitOut {
+                a_km: conic.a_km,
+                e: conic.e,
+                i_deg: conic.i_deg,
+                node_deg: conic.node_deg,
+                arg_peri_deg: conic.arg_peri_deg,
+            },
+        ));
+    }
+    let report = Report {
+        system: system.name.clone(),
+        from: system.bodies[from].name.clone(),
+        to: system.bodies[to].name.clone(),
+        depart: depart.to_iso_tdb(),
+        arrive: arrive.to_iso_tdb(),
+        depart_jd_tdb: depart.jd_tdb(),
+        arrive_jd_tdb: arrive.jd_tdb(),
+        arcs: out,
+    };
+    if args.json {
+        let mut text = serde_json::to_string_pretty(&report)?;
+        text.push('\n');
+        print(&text)?;
+    } else {
+        print(&table(&report))?;
+    }
+    Ok(Outcome::Done)
+}
+
+fn arc_out(f: &Figures, orbit: OrbitOut) -> ArcOut {
+    ArcOut {
+        revs: f.revs,
+        branch: f.branch.to_string(),
+        kind: f.kind.to_string(),
+        transfer_angle_deg: f.transfer_angle_deg,
+        tof_days: f.tof_days,
+        c3_km2_s2: f.c3_km2_s2,
+        vinf_depart_km_s: f.vinf_depart_km_s,
+        dla_deg: f.dla_deg,
+        rla_deg: f.rla_deg,
+        vinf_arrive_km_s: f.vinf_arrive_km_s,
+        arrive_dec_deg: f.arrive_dec_deg,
+        arrive_ra_deg: f.arrive_ra_deg,
+        dv_depart_km_s: f.dv_depart_km_s,
+        dv_arrive_km_s: f.dv_arrive_km_s,
+        dv_total_km_s: f.dv_total_km_s,
+        orbit,
+    }
+}
+
+fn table(r: &Report) -> String {
+    let mut s = String::new();
+    let _ = writeln!(s, "{} -> {}  ({})", r.from, r.to, r.system);
+    let _ = writeln!(s, "depart   {}  (JD {:.6} TDB)", r.depart, r.depart_jd_tdb);
+    let _ = writeln!(s, "arrive   {}  (JD {:.6} TDB)", r.arrive, r.arrive_jd_tdb);
+    for a in &r.arcs {
+        let _ = writeln!(
+            s,
+            "\nType {}  revs {}  branch {}  transfer angle {:.3} deg  time of flight {:.3} d",
+            a.kind, a.revs, a.branch, a.transfer_angle_deg, a.tof_days
+        );
+        let rows: [(&str, String); 12] = [
+            ("C3", format!("{:.4} km^2/s^2", a.c3_km2_s2)),
+            ("v-infinity out", format!("{:.4} km/s", a.vinf_depart_km_s)),
+            ("DLA", format!("{:.3} deg", a.dla_deg)),
+            ("RLA", format!("{:.3} deg", a.rla_deg)),
+            ("v-infinity in", format!("{:.4} km/s", a.vinf_arrive_km_s)),
+            ("arrival dec", format!("{:.3} deg", a.arrive_dec_deg)),
+            ("arrival RA", format!("{:.3} deg", a.arrive_ra_deg)),
+            ("delta-v depart", format!("{:.4} km/s", a.dv_depart_km_s)),
+            ("delta-v arrive", format!("{:.4} km/s", a.dv_arrive_km_s)),
+            ("delta-v total", format!("{:.4} km/s", a.dv_total_km_s)),
+            (
+                "transfer orbit",
+                format!(
+                    "a {:.6e} km  e {:.5}  i {:.4} deg",
+                    a.orbit.a_km, a.orbit.e, a.orbit.i_deg
+                ),
+            ),
+            (
+                "",
+                format!(
+                    "node {:.4} deg  arg. periapsis {:.4} deg",
+                    a.orbit.node_deg, a.orbit.arg_peri_deg
+                ),
+            ),
+        ];
+        for (k, v) in rows {
+            let _ = writeln!(s, "  {k:<16} {v}");
+        }
+    }
+    s
+}

@@ -1,0 +1,128 @@
+//! Where the transfer opportunities between two bodies fall.
+//!
+//! Opportunities recur once per synodic period. Each is bracketed by the
+//! date at which the arrival body leads the departure body by the phase
+//! angle a Hohmann transfer between their mean orbits would need; the grid
+//! sweep and window search then look around that date.
+
+use std::f64::consts::{PI, TAU};
+
+use crate::ephemeris::System;
+
+/// The phasing of one opportunity.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Opportunity {
+    /// Departure date at which the Hohmann phase angle is met, days past
+    /// J2000 TDB.
+    pub depart_days: f64,
+    /// Hohmann transfer time between the mean orbits, days.
+    pub hohmann_tof_days: f64,
+    /// Synodic period of the pair, days.
+    pub synodic_days: f64,
+}
+
+/// Hohmann transfer time (days) between circular orbits of radii
+/// `a1_km` and `a2_km` around a body of GM `mu_km3_s2`.
+///
+/// # Method
+/// Half the period of the transfer ellipse by Kepler's third law:
+/// `pi sqrt(((a1 + a2) / 2)^3 / mu)` (Curtis 2010, eq. 6.3 with 2.83).
+pub fn hohmann_tof_days(a1_km: f64, a2_km: f64, mu_km3_s2: f64) -> f64 {
+    let a = 0.5 * (a1_km + a2_km);
+    PI * (a * a * a / mu_km3_s2).sqrt() / 86_400.0
+}
+
+/// The first opportunity from `from` to `to` whose Hohmann phasing date
+/// is at or after `after_days` (days past J2000 TDB).
+///
+/// Returns `None` when the two bodies share a period (no recurrence).
+///
+/// # Method
+/// The required lead angle of the arrival body at departure is
+/// `pi - n2 T_H` (mean motion `n2`, Hohmann time `T_H`); the actual lead
+/// is the difference of the bodies' longitudes in the reference plane.
+/// Scanned daily over one synodic period, then refined by bisection on the
+/// wrapped difference.
+pub fn next_opportunity(
+    system: &System,
+    from: usize,
+    to: usize,
+    after_days: f64,
+) -> Option<Opportunity> {
+    let synodic = system.synodic_period_days(from, to);
+    if !synodic.is_finite() {
+        return None;
+    }
+    let mu = system.central.mu_km3_s2;
+    let a1 = system.bodies[from].elements.a_km;
+    let a2 = system.bodies[to].elements.a_km;
+    let t_h = hohmann_tof_days(a1, a2, mu);
+    let p2 = system.period_days(to);
+    let required = PI - TAU * t_h / p2;
+    let error = |d: f64| -> f64 {
+        let r1 = system.state_at_days(from, d).r_km;
+        let r2 = system.state_at_days(to, d).r_km;
+        let lead = r2.y.atan2(r2.x) - r1.y.atan2(r1.x);
+        (lead - required + PI).rem_euclid(TAU) - PI
+    };
+    let steps = synodic.ceil() as usize + 2;
+    let mut prev = error(after_days);
+    for k in 1..=steps {
+        let d = after_days + k as f64;
+        let cur = error(d);
+        // A true crossing changes sign by a small amount; a wrap jumps by
+        // about 2 pi.
+        if prev.signum() != cur.signum() && (cur - prev).abs() < PI {
+            let (mut lo, mut hi) = (d - 1.0, d);
+            let f_lo = prev;
+            for _ in 0..50 {
+                let mid = 0.5 * (lo + hi);
+                if error(mid).signum() == f_lo.signum() {
+                    lo = mid;
+                } else {
+                    hi = mid;
+                }
+            }
+            return Some(Opportunity {
+                depart_days: 0.5 * (lo + hi),
+                hohmann_tof_days: t_h,
+                synodic_days: synodic,
+            });
+        }
+        prev = cur;
+    }
+    None
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use approx::assert_relative_eq;
+
+    /// Hohmann time between circular orbits at 1 and 1.524 au around the
+    /// Sun: about 259 days.
+    ///
+    /// Source: Curtis (2010), *Orbital Mechanics for Engineering Students*,
+    /// Example 8.4 (from memory; REFERENCES.md section 3). Printed to three
+    /// digits, so the tolerance is 1 day.
+    #[test]
+    fn hohmann_earth_mars_time() {
+        let au = 149_597_870.7;
+        let t = hohmann_tof_days(au, 1.524 * au, 1.327_124_400_41e11);
+        assert!((t - 259.0).abs() < 1.0, "{t}");
+    }
+
+    /// Kepler's third law: the transfer time is half the period of the
+    /// ellipse with semi-major axis (a1 + a2) / 2.
+    #[test]
+    fn hohmann_is_half_a_period() {
+        let (a1, a2, mu) = (1.0e8, 3.0e8, 1.3e11);
+        let a: f64 = 2.0e8;
+        let period_days = TAU * (a.powi(3) / mu).sqrt() / 86_400.0;
+        assert_relative_eq!(
+            hohmann_tof_days(a1, a2, mu),
+            period_days / 2.0,
+            max_relative = 1e-14
+        );
+    }
+}

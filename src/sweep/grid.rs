@@ -1,0 +1,273 @@
+//! The sweep's axes and its compact struct-of-arrays result grid.
+
+use crate::lambert::Branch;
+use crate::time::Epoch;
+use crate::transfer::TransferType;
+
+/// An evenly spaced axis of dates or durations.
+///
+/// # Units
+/// `start_days` is days past J2000 TDB for a date axis, or days for a
+/// time-of-flight axis; `step_days` in days.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Axis {
+    /// First value.
+    pub start_days: f64,
+    /// Spacing between values, > 0.
+    pub step_days: f64,
+    /// Number of values, >= 1.
+    pub count: usize,
+}
+
+impl Axis {
+    /// The axis from `start` to `end` (inclusive where the step lands on
+    /// it) every `step_days`.
+    ///
+    /// # Errors
+    /// A non-positive or non-finite step, or `end` before `start`.
+    pub fn spanning(start_days: f64, end_days: f64, step_days: f64) -> Result<Axis, AxisError> {
+        if !(step_days.is_finite() && step_days > 0.0) {
+            return Err(AxisError::Step { step_days });
+        }
+        if !(start_days.is_finite() && end_days.is_finite()) || end_days < start_days {
+            return Err(AxisError::Span {
+                start_days,
+                end_days,
+            });
+        }
+        // A hair of tolerance so that 0..10 step 0.1 includes 10.
+        let count = ((end_days - start_days) / step_days * (1.0 + 1e-12)).floor() as usize + 1;
+        Ok(Axis {
+            start_days,
+            step_days,
+            count,
+        })
+    }
+
+    /// The `i`-th value.
+    #[inline]
+    pub fn value(&self, i: usize) -> f64 {
+        self.start_days + i as f64 * self.step_days
+    }
+
+    /// The last value.
+    pub fn end_days(&self) -> f64 {
+        self.value(self.count.saturating_sub(1))
+    }
+
+    /// All values.
+    pub fn values(&self) -> Vec<f64> {
+        (0..self.count).map(|i| self.value(i)).collect()
+    }
+}
+
+/// Why an axis could not be built.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+#[non_exhaustive]
+pub enum AxisError {
+    /// The step must be a finite number of days > 0.
+    #[error("step must be a number of days > 0, got {step_days}")]
+    Step {
+        /// The rejected step, days.
+        step_days: f64,
+    },
+    /// The span ends before it starts, or is not finite.
+    #[error("span ends before it starts ({start_days} .. {end_days} days)")]
+    Span {
+        /// Start, days.
+        start_days: f64,
+        /// End, days.
+        end_days: f64,
+    },
+}
+
+/// What the second axis of a sweep counts.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum SecondAxis {
+    /// Arrival dates (days past J2000 TDB).
+    Arrival,
+    /// Times of flight (days).
+    TimeOfFlight,
+}
+
+/// Outcome of one cell of one solution layer.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, PartialOrd, Ord)]
+#[repr(u8)]
+pub enum CellStatus {
+    /// Solved; every figure is valid.
+    Ok = 0,
+    /// No arc exists (arrival not after departure, no solution with this
+    /// many revolutions, or degenerate geometry).
+    NoSolution = 1,
+    /// The solver hit its iteration limit.
+    NotConverged = 2,
+}
+
+impl CellStatus {
+    /// The status as written in files: `ok`, `no solution`, `not converged`.
+    pub fn as_str(&self) -> &'static str {
+        match self {
+            CellStatus::Ok => "ok",
+            CellStatus::NoSolution => "no solution",
+            CellStatus::NotConverged => "not converged",
+        }
+    }
+
+    pub(crate) fn from_u8(v: u8) -> CellStatus {
+        match v {
+            0 => CellStatus::Ok,
+            2 => CellStatus::NotConverged,
+            _ => CellStatus::NoSolution,
+        }
+    }
+}
+
+/// One solution layer: which revolution count and branch it holds.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub struct Layer {
+    /// Complete revolutions.
+    pub revs: u32,
+    /// Branch (single for zero revolutions).
+    pub branch: Branch,
+}
+
+/// The layers of a sweep with up to `max_revs` revolutions: zero
+/// revolutions first, then for each M the left and right branches.
+pub fn layers_for(max_revs: u32) -> Vec<Layer> {
+    let mut v = vec![Layer {
+        revs: 0,
+        branch: Branch::Single,
+    }];
+    for m in 1..=max_revs {
+        v.push(Layer {
+            revs: m,
+            branch: Branch::Left,
+        });
+        v.push(Layer {
+            revs: m,
+            branch: Branch::Right,
+        });
+    }
+    v
+}
+
+/// Bytes of grid storage per cell and layer (see [`Grid`]).
+pub const BYTES_PER_CELL_LAYER: usize = 2 * 8 + 5 * 4 + 1;
+
+/// Result of a sweep, as a struct of arrays.
+///
+/// Cell `(i, j)` (departure `i`, second-axis value `j`) of layer `l` sits at
+/// index `(i * n_second + j) * n_layers + l` of every array, so one
+/// departure row is a contiguous block. Speeds are stored as f64;
+/// angles as f32 (about 1e-5 deg resolution, far below what the mean
+/// elements support). C3, delta-v and time of flight are derived, not
+/// stored: [`BYTES_PER_CELL_LAYER`] = 37 bytes.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Grid {
+    /// Departure dates.
+    pub depart: Axis,
+    /// Arrival dates or times of flight.
+    pub second: Axis,
+    /// What [`Grid::second`] counts.
+    pub second_kind: SecondAxis,
+    /// Solution layers.
+    pub layers: Vec<Layer>,
+    /// Departure hyperbolic excess speed, km/s.
+    pub vinf_depart_km_s: Vec<f64>,
+    /// Arrival hyperbolic excess speed, km/s.
+    pub vinf_arrive_km_s: Vec<f64>,
+    /// DLA, deg.
+    pub dla_deg: Vec<f32>,
+    /// RLA, deg.
+    pub rla_deg: Vec<f32>,
+    /// Declination of the arrival asymptote, deg.
+    pub arrive_dec_deg: Vec<f32>,
+    /// Right ascension of the arrival asymptote, deg.
+    pub arrive_ra_deg: Vec<f32>,
+    /// Transfer angle in the direction of motion, deg in [0, 360).
+    pub transfer_angle_deg: Vec<f32>,
+    /// [`CellStatus`] as u8.
+    pub status: Vec<u8>,
+}
+
+impl Grid {
+    /// An empty (all "no solution") grid for the given axes and layers.
+    pub(crate) fn new(
+        depart: Axis,
+        second: Axis,
+        second_kind: SecondAxis,
+        layers: Vec<Layer>,
+    ) -> Grid {
+        let n = depart.count * second.count * layers.len();
+        Grid {
+            depart,
+            second,
+            second_kind,
+            layers,
+            vinf_depart_km_s: vec![f64::NAN; n],
+            vinf_arrive_km_s: vec![f64::NAN; n],
+            dla_deg: vec![f32::NAN; n],
+            rla_deg: vec![f32::NAN; n],
+            arrive_dec_deg: vec![f32::NAN; n],
+            arrive_ra_deg: vec![f32::NAN; n],
+            transfer_angle_deg: vec![f32::NAN; n],
+            status: vec![CellStatus::NoSolution as u8; n],
+        }
+    }
+
+    /// Number of cells per layer.
+    pub fn cells(&self) -> usize {
+        self.depart.count * self.second.count
+    }
+
+    /// Array index of cell `(i, j)` in layer `l`.
+    #[inline]
+    pub fn index(&self, i: usize, j: usize, l: usize) -> usize {
+        (i * self.second.count + j) * self.layers.len() + l
+    }
+
+    /// Departure and arrival dates (days past J2000 TDB) of cell `(i, j)`.
+    #[inline]
+    pub fn dates_days(&self, i: usize, j: usize) -> (f64, f64) {
+        let d = self.depart.value(i);
+        match self.second_kind {
+            SecondAxis::Arrival => (d, self.second.value(j)),
+            SecondAxis::TimeOfFlight => (d, d + self.second.value(j)),
+        }
+    }
+
+    /// Status of a cell.
+    pub fn status_at(&self, idx: usize) -> CellStatus {
+        CellStatus::from_u8(self.status[idx])
+    }
+
+    /// C3 at an index, km^2/s^2 (NaN unless the status is ok).
+    #[inline]
+    pub fn c3_km2_s2(&self, idx: usize) -> f64 {
+        let v = self.vinf_depart_km_s[idx];
+        v * v
+    }
+
+    /// Transfer type at an index.
+    pub fn kind_at(&self, idx: usize) -> TransferType {
+        TransferType::from_angle_rad(f64::from(self.transfer_angle_deg[idx]).to_radians())
+    }
+
+    /// Counts of cells by status over every layer.
+    pub fn status_counts(&self) -> [(CellStatus, usize); 3] {
+        let mut c = [0usize; 3];
+        for &s in &self.status {
+            c[usize::from(s.min(2))] += 1;
+        }
+        [
+            (CellStatus::Ok, c[0]),
+            (CellStatus::NoSolution, c[1]),
+            (CellStatus::NotConverged, c[2]),
+        ]
+    }
+
+    /// Epoch of departure index `i`.
+    pub fn depart_epoch(&self, i: usize) -> Epoch {
+        Epoch::from_days_since_j2000_tdb(self.depart.value(i))
+    }
+}
