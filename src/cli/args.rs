@@ -44,7 +44,8 @@ pub enum Command {
     /// One transfer between two bodies on given dates: C3, DLA, RLA,
     /// v-infinity, delta-v and the transfer orbit.
     ///
-    /// Example: synodic transfer Tethys-not-a-name... see README
+    /// Example: synodic transfer Teodra Kesh --depart 2031-03-01
+    /// --arrive 2031-11-15
     Transfer(TransferArgs),
     /// Sweep departure x arrival dates: C3, DLA, RLA, v-infinity and
     /// delta-v for every pair, written to grid.csv and summary.json.

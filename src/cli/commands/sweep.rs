@@ -22,7 +22,7 @@ use crate::cli::{CliResult, Outcome};
 
 /// The demo study's default pair: two bodies of the built-in system whose
 /// windows recur every couple of years.
-pub const DEMO_PAIR: (&str, &str) = ("Ardent", "Corvale");
+pub const DEMO_PAIR: (&str, &str) = ("Teodra", "Kesh");
 
 const CAUTION: &str = "Preliminary patched-conic design figures from mean-element \
 ephemerides; not a flight product. Defer to the mission's navigation and flight-dynamics \

@@ -1,0 +1,72 @@
+//! `synodic sweep` end to end.
+
+use crate::util::Dir;
+
+const HEADER: &str = "depart_jd_tdb,arrive_jd_tdb,depart_date,arrive_date,tof_days,revs,branch,type,transfer_angle_deg,c3_km2_s2,vinf_depart_km_s,dla_deg,rla_deg,vinf_arrive_km_s,arrive_dec_deg,arrive_ra_deg,dv_depart_km_s,dv_arrive_km_s,dv_total_km_s,status";
+
+#[test]
+fn demo_study_writes_grid_and_summary() {
+    let d = Dir::new("demo");
+    let r = d.run(&["sweep"]).ok();
+    assert!(r.stdout.contains("Teodra -> Kesh"), "{}", r.stdout);
+    assert!(r.stdout.contains("preliminary") || r.stdout.contains("Preliminary"));
+    let files = d.files("synodic-out");
+    assert!(files.contains(&"grid.csv".to_string()), "{files:?}");
+    assert!(files.contains(&"summary.json".to_string()), "{files:?}");
+    let grid = std::fs::read_to_string(d.join("synodic-out/grid.csv")).expect("grid");
+    let mut lines = grid.lines();
+    assert_eq!(lines.next(), Some(HEADER));
+    let rows: Vec<&str> = lines.collect();
+    assert!(rows.iter().filter(|l| l.ends_with(",ok")).count() > 1000);
+    let s: serde_json::Value = serde_json::from_str(
+        &std::fs::read_to_string(d.join("synodic-out/summary.json")).expect("summary"),
+    )
+    .expect("JSON");
+    assert_eq!(s["from"], "Teodra");
+    assert_eq!(s["system"]["sha256"].as_str().map(str::len), Some(64));
+    let rows_total = s["grid"]["rows"].as_u64().expect("rows");
+    assert_eq!(rows_total as usize, rows.len());
+    let minima = s["minima"].as_array().expect("minima");
+    assert!(minima.iter().any(|m| m["objective"] == "c3" && m["type"] == "I"));
+}
+
+#[test]
+fn thread_count_does_not_change_a_byte() {
+    let d = Dir::new("threads");
+    let common = [
+        "sweep", "Teodra", "Kesh", "--depart", "2031-01-01..2031-04-30", "--tof-days", "100..400",
+        "--step-days", "3", "--revs", "1", "--quiet",
+    ];
+    let mut one = common.to_vec();
+    one.extend(["--threads", "1", "--out", "one"]);
+    let mut two = common.to_vec();
+    two.extend(["--threads", "2", "--out", "two"]);
+    d.run(&one).ok();
+    d.run(&two).ok();
+    for f in ["grid.csv", "summary.json"] {
+        let a = std::fs::read(d.join(&format!("one/{f}"))).expect("one");
+        let b = std::fs::read(d.join(&format!("two/{f}"))).expect("two");
+        assert!(a == b, "{f} differs between --threads 1 and 2");
+    }
+    let grid = std::fs::read_to_string(d.join("one/grid.csv")).expect("grid");
+    assert!(grid.contains(",1,left,") && grid.contains(",1,right,"));
+}
+
+#[test]
+fn skip_grid_leaves_it_out() {
+    let d = Dir::new("skip");
+    d.run(&["sweep", "--skip", "grid", "--quiet"]).ok();
+    assert_eq!(d.files("synodic-out"), vec!["summary.json".to_string()]);
+}
+
+#[test]
+fn oversized_grid_is_refused_before_allocating() {
+    let d = Dir::new("huge");
+    let r = d.run(&[
+        "sweep", "Teodra", "Kesh", "--depart", "2031-01-01..2040-12-31", "--arrive",
+        "2031-06-01..2045-12-31", "--step-days", "0.01", "--revs", "3",
+    ]);
+    let r = r.bad_input(&["MiB", "larger step"]);
+    assert!(r.stdout.is_empty());
+    assert!(d.files("").is_empty(), "{:?}", d.files(""));
+}
