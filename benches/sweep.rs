@@ -1,2 +1,95 @@
-//! Benchmarks: sweep (criterion).
-fn main() {}
+//! Benchmarks: the grid sweep on the demo system.
+//!
+//! `sweep/zero_rev/{200,500,1000}`: square zero-revolution grids with every
+//! figure computed (no file written), on all cores.
+//! `sweep/threads/{1,all}`: a 500 x 500 grid on one thread and on all.
+//!
+//! Run: `cargo bench --bench sweep -- --warm-up-time 1 --measurement-time 5`
+
+use std::hint::black_box;
+
+use criterion::{BenchmarkId, Criterion, Throughput};
+use synodic::ephemeris::System;
+use synodic::sweep::{sweep, Axis, RunOptions, SecondAxis, SweepSpec};
+use synodic::time::Epoch;
+use synodic::transfer::Endpoints;
+
+fn spec(system: &System, n: usize) -> SweepSpec {
+    let from = system.find("Teodra").expect("demo body");
+    let to = system.find("Kesh").expect("demo body");
+    let start = Epoch::parse("2031-01-01")
+        .expect("date")
+        .days_since_j2000_tdb();
+    // 400 days of departures and 150-550 days of flight, n values each.
+    let step_d = 400.0 / n as f64;
+    SweepSpec {
+        from,
+        to,
+        depart: Axis {
+            start_days: start,
+            step_days: step_d,
+            count: n,
+        },
+        second: Axis {
+            start_days: 150.0,
+            step_days: step_d,
+            count: n,
+        },
+        second_kind: SecondAxis::TimeOfFlight,
+        max_revs: 0,
+        ends: Endpoints::new(
+            &system.bodies[from],
+            &system.bodies[to],
+            Some(200.0),
+            Some((300.0, 0.5)),
+        )
+        .expect("demo bodies have GM and radius"),
+    }
+}
+
+fn run(system: &System, spec: &SweepSpec, threads: Option<usize>) {
+    let grid = sweep(
+        system,
+        spec,
+        RunOptions {
+            threads,
+            memory_limit_bytes: None,
+        },
+        || {},
+    )
+    .expect("sweep runs");
+    // A sweep that computes nonsense fails the benchmark.
+    let ok = grid.status.iter().filter(|&&s| s == 0).count();
+    assert!(ok * 10 > grid.status.len() * 9, "only {ok} cells solved");
+    assert!(grid
+        .vinf_depart_km_s
+        .iter()
+        .take(1000)
+        .any(|v| v.is_finite()));
+    black_box(&grid);
+}
+
+fn main() {
+    let mut c = Criterion::default().configure_from_args().sample_size(10);
+    let system = System::demo();
+    {
+        let mut g = c.benchmark_group("sweep/zero_rev");
+        for n in [200usize, 500, 1000] {
+            let s = spec(&system, n);
+            g.throughput(Throughput::Elements((n * n) as u64));
+            g.bench_with_input(BenchmarkId::from_parameter(n), &s, |b, s| {
+                b.iter(|| run(&system, black_box(s), None))
+            });
+        }
+        g.finish();
+    }
+    {
+        let mut g = c.benchmark_group("sweep/threads");
+        let s = spec(&system, 500);
+        g.throughput(Throughput::Elements(500 * 500));
+        g.bench_function("1", |b| b.iter(|| run(&system, black_box(&s), Some(1))));
+        g.bench_function("all", |b| b.iter(|| run(&system, black_box(&s), None)));
+        g.finish();
+    }
+    c.final_summary();
+}

@@ -367,3 +367,6 @@ fn layer_slot(left_slot: usize, sol: &LambertSolution) -> usize {
         _ => left_slot,
     }
 }
+
+#[cfg(test)]
+mod tests;

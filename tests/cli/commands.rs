@@ -33,19 +33,43 @@ fn lambert_reproduces_curtis_example_5_2() {
     let d = Dir::new("lambert");
     let r = d
         .run(&[
-            "lambert", "--mu", "398600", "--r1", "5000,10000,2100", "--r2", "-14600,2500,7000",
-            "--tof", "3600", "--json",
+            "lambert",
+            "--mu",
+            "398600",
+            "--r1",
+            "5000,10000,2100",
+            "--r2",
+            "-14600,2500,7000",
+            "--tof",
+            "3600",
+            "--json",
         ])
         .ok();
     let v: serde_json::Value = serde_json::from_str(&r.stdout).expect("JSON");
     let s = &v[0];
-    let v1: Vec<f64> = s["v1"].as_array().expect("v1").iter().map(|x| x.as_f64().expect("num")).collect();
-    let v2: Vec<f64> = s["v2"].as_array().expect("v2").iter().map(|x| x.as_f64().expect("num")).collect();
+    let v1: Vec<f64> = s["v1"]
+        .as_array()
+        .expect("v1")
+        .iter()
+        .map(|x| x.as_f64().expect("num"))
+        .collect();
+    let v2: Vec<f64> = s["v2"]
+        .as_array()
+        .expect("v2")
+        .iter()
+        .map(|x| x.as_f64().expect("num"))
+        .collect();
     let want1 = [-5.9925, 1.9254, 3.2456];
     let want2 = [-3.3125, -4.1966, -0.38529];
     for k in 0..3 {
-        assert!((v1[k] - want1[k]).abs() < 1e-4 * want1[k].abs().max(1.0), "{v1:?}");
-        assert!((v2[k] - want2[k]).abs() < 1e-4 * want2[k].abs().max(1.0), "{v2:?}");
+        assert!(
+            (v1[k] - want1[k]).abs() < 1e-4 * want1[k].abs().max(1.0),
+            "{v1:?}"
+        );
+        assert!(
+            (v2[k] - want2[k]).abs() < 1e-4 * want2[k].abs().max(1.0),
+            "{v2:?}"
+        );
     }
     // Curtis Example 5.3 (from memory, REFERENCES.md 1.1): a ~ 20000 km.
     let a = s["a"].as_f64().expect("a");
@@ -73,8 +97,16 @@ fn lambert_batch_solves_good_rows_and_reports_bad_ones() {
     let out = std::fs::read_to_string(d.join("out.csv")).expect("output written");
     let lines: Vec<&str> = out.lines().collect();
     assert_eq!(lines[0], "id,revs,branch,v1x,v1y,v1z,v2x,v2y,v2z,status");
-    assert!(lines.iter().any(|l| l.starts_with("curtis,0,single,") && l.ends_with(",ok")));
-    assert_eq!(lines.iter().filter(|l| l.starts_with("der2-1,1,") && l.ends_with(",ok")).count(), 2);
+    assert!(lines
+        .iter()
+        .any(|l| l.starts_with("curtis,0,single,") && l.ends_with(",ok")));
+    assert_eq!(
+        lines
+            .iter()
+            .filter(|l| l.starts_with("der2-1,1,") && l.ends_with(",ok"))
+            .count(),
+        2
+    );
     let two: Vec<&&str> = lines.iter().filter(|l| l.starts_with("der2-2,")).collect();
     assert_eq!(two.len(), 1, "{out}");
     assert!(two[0].starts_with("der2-2,2,,,,,,,,"), "{}", two[0]);
@@ -82,7 +114,11 @@ fn lambert_batch_solves_good_rows_and_reports_bad_ones() {
     // 17 significant digits: d.dddddddddddddddde±x
     let curtis = lines.iter().find(|l| l.starts_with("curtis")).expect("row");
     let v1x = curtis.split(',').nth(3).expect("v1x");
-    let mantissa = v1x.trim_start_matches('-').split('e').next().expect("mantissa");
+    let mantissa = v1x
+        .trim_start_matches('-')
+        .split('e')
+        .next()
+        .expect("mantissa");
     assert_eq!(mantissa.len(), 18, "{v1x}");
 }
 
@@ -90,7 +126,16 @@ fn lambert_batch_solves_good_rows_and_reports_bad_ones() {
 fn transfer_between_demo_bodies() {
     let d = Dir::new("transfer");
     let r = d
-        .run(&["transfer", "Teodra", "Kesh", "--depart", "2031-03-01", "--arrive", "2031-11-15", "--json"])
+        .run(&[
+            "transfer",
+            "Teodra",
+            "Kesh",
+            "--depart",
+            "2031-03-01",
+            "--arrive",
+            "2031-11-15",
+            "--json",
+        ])
         .ok();
     let v: serde_json::Value = serde_json::from_str(&r.stdout).expect("JSON");
     let arc = &v["arcs"][0];
@@ -99,7 +144,15 @@ fn transfer_between_demo_bodies() {
     assert!((c3 - vinf * vinf).abs() < 1e-9 * c3.max(1.0));
     assert!(["I", "II"].contains(&arc["type"].as_str().expect("type")));
     let text = d
-        .run(&["transfer", "teodra", "kesh", "--depart", "2031-03-01", "--arrive", "2031-11-15"])
+        .run(&[
+            "transfer",
+            "teodra",
+            "kesh",
+            "--depart",
+            "2031-03-01",
+            "--arrive",
+            "2031-11-15",
+        ])
         .ok();
     assert!(text.stdout.contains("C3"), "{}", text.stdout);
 }

@@ -27,15 +27,27 @@ fn demo_study_writes_grid_and_summary() {
     let rows_total = s["grid"]["rows"].as_u64().expect("rows");
     assert_eq!(rows_total as usize, rows.len());
     let minima = s["minima"].as_array().expect("minima");
-    assert!(minima.iter().any(|m| m["objective"] == "c3" && m["type"] == "I"));
+    assert!(minima
+        .iter()
+        .any(|m| m["objective"] == "c3" && m["type"] == "I"));
 }
 
 #[test]
 fn thread_count_does_not_change_a_byte() {
     let d = Dir::new("threads");
     let common = [
-        "sweep", "Teodra", "Kesh", "--depart", "2031-01-01..2031-04-30", "--tof-days", "100..400",
-        "--step-days", "3", "--revs", "1", "--quiet",
+        "sweep",
+        "Teodra",
+        "Kesh",
+        "--depart",
+        "2031-01-01..2031-04-30",
+        "--tof-days",
+        "100..400",
+        "--step-days",
+        "3",
+        "--revs",
+        "1",
+        "--quiet",
     ];
     let mut one = common.to_vec();
     one.extend(["--threads", "1", "--out", "one"]);
@@ -63,8 +75,17 @@ fn skip_grid_leaves_it_out() {
 fn oversized_grid_is_refused_before_allocating() {
     let d = Dir::new("huge");
     let r = d.run(&[
-        "sweep", "Teodra", "Kesh", "--depart", "2031-01-01..2040-12-31", "--arrive",
-        "2031-06-01..2045-12-31", "--step-days", "0.01", "--revs", "3",
+        "sweep",
+        "Teodra",
+        "Kesh",
+        "--depart",
+        "2031-01-01..2040-12-31",
+        "--arrive",
+        "2031-06-01..2045-12-31",
+        "--step-days",
+        "0.01",
+        "--revs",
+        "3",
     ]);
     let r = r.bad_input(&["MiB", "larger step"]);
     assert!(r.stdout.is_empty());

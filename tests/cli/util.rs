@@ -14,10 +14,8 @@ pub struct Dir {
 impl Dir {
     pub fn new(name: &str) -> Dir {
         let n = NEXT.fetch_add(1, Ordering::SeqCst);
-        let path = std::env::temp_dir().join(format!(
-            "synodic-cli-{name}-{}-{n}",
-            std::process::id()
-        ));
+        let path =
+            std::env::temp_dir().join(format!("synodic-cli-{name}-{}-{n}", std::process::id()));
         let _ = std::fs::remove_dir_all(&path);
         std::fs::create_dir_all(&path).expect("create temp dir");
         Dir { path }
@@ -45,7 +43,11 @@ impl Dir {
 
     /// Names of the files in a sub-folder (or this folder), sorted.
     pub fn files(&self, sub: &str) -> Vec<String> {
-        let dir = if sub.is_empty() { self.path.clone() } else { self.join(sub) };
+        let dir = if sub.is_empty() {
+            self.path.clone()
+        } else {
+            self.join(sub)
+        };
         list(&dir)
     }
 }
@@ -89,7 +91,11 @@ impl From<Output> for Run {
 impl Run {
     /// Assert a zero exit, showing both streams otherwise.
     pub fn ok(self) -> Run {
-        assert_eq!(self.code, 0, "expected success\n--- stdout\n{}\n--- stderr\n{}", self.stdout, self.stderr);
+        assert_eq!(
+            self.code, 0,
+            "expected success\n--- stdout\n{}\n--- stderr\n{}",
+            self.stdout, self.stderr
+        );
         self
     }
 
@@ -97,7 +103,11 @@ impl Run {
     /// `needles`. A panic (101) is always a failure.
     pub fn bad_input(self, needles: &[&str]) -> Run {
         assert_ne!(self.code, 101, "panicked:\n{}", self.stderr);
-        assert_eq!(self.code, 2, "expected exit 2\n--- stdout\n{}\n--- stderr\n{}", self.stdout, self.stderr);
+        assert_eq!(
+            self.code, 2,
+            "expected exit 2\n--- stdout\n{}\n--- stderr\n{}",
+            self.stdout, self.stderr
+        );
         for n in needles {
             assert!(
                 self.stderr.contains(n),
