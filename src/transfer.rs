@@ -431,6 +431,66 @@ impl Figures {
     }
 }
 
+/// A departure body, an arrival body and what to do at each end: the
+/// unit that optimisers and window searches evaluate at arbitrary dates.
+#[derive(Debug, Clone, Copy)]
+pub struct Leg<'a> {
+    /// The system both bodies belong to.
+    pub system: &'a System,
+    /// Departure body index.
+    pub from: usize,
+    /// Arrival body index.
+    pub to: usize,
+    /// Parking and capture orbits, asymptote frames.
+    pub ends: Endpoints,
+}
+
+impl Leg<'_> {
+    /// The figures of the arc with `revs` revolutions on `branch` from
+    /// `depart_days` to `arrive_days` (days past J2000 TDB), or `None`
+    /// when no such arc exists (arrival not after departure, degenerate
+    /// geometry, time of flight below the minimum for `revs`).
+    ///
+    /// Motion is prograde about the departure body's orbit normal, as in
+    /// the grid sweep, so the two agree to the last bit.
+    pub fn figures(
+        &self,
+        revs: u32,
+        branch: Branch,
+        depart_days: f64,
+        arrive_days: f64,
+    ) -> Option<Figures> {
+        let tof_days = arrive_days - depart_days;
+        if tof_days.is_nan() || tof_days <= 0.0 {
+            return None;
+        }
+        let s1 = self.system.state_at_days(self.from, depart_days);
+        let s2 = self.system.state_at_days(self.to, arrive_days);
+        let normal = s1.r_km.cross(&s1.v_km_s);
+        let tof_s = tof_days * SECONDS_PER_DAY;
+        let mu = self.system.central.mu_km3_s2;
+        let sol = if revs == 0 {
+            lambert::solve_zero_rev(&s1.r_km, &s2.r_km, tof_s, mu, Direction::Prograde, Some(&normal))
+                .ok()?
+        } else {
+            let problem = LambertProblem {
+                r1: s1.r_km,
+                r2: s2.r_km,
+                tof: tof_s,
+                mu,
+                direction: Direction::Prograde,
+                max_revs: revs,
+                reference_normal: Some(normal),
+            };
+            lambert::solve_revs(&problem, revs)
+                .ok()?
+                .into_iter()
+                .find(|s| s.branch == branch)?
+        };
+        Some(Figures::from_arc(&self.ends, &s1, &s2, tof_days, &sol))
+    }
+}
+
 /// Every Lambert arc from body `from` at `depart` to body `to` at `arrive`
 /// with up to `max_revs` complete revolutions, with its figures.
 ///
