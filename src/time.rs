@@ -144,7 +144,12 @@ impl Epoch {
         )
         .map_err(|e| TimeError::InvalidDate {
             text: text.to_string(),
-            reason: e.to_string(),
+            reason: match e {
+                hifitime::HifitimeError::InvalidGregorianDate => {
+                    "second 60 exists only in UTC, at a leap second".to_string()
+                }
+                other => other.to_string(),
+            },
         })?;
         Ok(Epoch {
             days_tdb: h.to_tdb_duration().to_unit(Unit::Day),
@@ -415,6 +420,31 @@ impl Fields {
                     nanos = frac.parse::<u32>().map_err(|_| syntax("bad fraction"))? * scale_up;
                 }
             }
+        }
+        let invalid = |reason: &str| TimeError::InvalidDate {
+            text: text.to_string(),
+            reason: reason.to_string(),
+        };
+        if !(1..=12).contains(&month) {
+            return Err(invalid("month must be 01-12"));
+        }
+        let leap = (year % 4 == 0 && year % 100 != 0) || year % 400 == 0;
+        let month_days = [
+            31,
+            if leap { 29 } else { 28 },
+            31,
+            30,
+            31,
+            30,
+            31,
+            31,
+            30,
+            31,
+            30,
+            31,
+        ];
+        if day < 1 || day > month_days[(month - 1) as usize] {
+            return Err(invalid("no such day in that month"));
         }
         if hour > 23 || minute > 59 || second > 60 {
             return Err(TimeError::InvalidDate {
