@@ -223,6 +223,14 @@ impl Locator<'_> {
             + 1
     }
 
+    /// The trimmed text of the line containing byte `offset`.
+    fn line_text(&self, offset: usize) -> Option<&str> {
+        let offset = offset.min(self.text.len());
+        let start = self.text.get(..offset)?.rfind('\n').map_or(0, |i| i + 1);
+        let rest = self.text.get(start..)?;
+        Some(rest.lines().next().unwrap_or("").trim())
+    }
+
     fn invalid(
         &self,
         span: Range<usize>,
@@ -364,7 +372,13 @@ impl System {
         let loc = Locator { text, file: source };
         let raw: RawSystem = toml::from_str(text).map_err(|e| {
             let line = e.span().map_or(1, |s| loc.line(s.start));
-            let message = e.message().trim().to_string();
+            let mut message = e.message().trim().to_string();
+            // A missing key is reported at its table's header: say which.
+            if let Some(header) = e.span().and_then(|s| loc.line_text(s.start)) {
+                if header.starts_with('[') {
+                    message = format!("{message} in table {header}");
+                }
+            }
             let key = e
                 .span()
                 .and_then(|s| loc.key_at(s.start))

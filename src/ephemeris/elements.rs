@@ -281,6 +281,35 @@ mod tests {
         assert_relative_eq!(n, 35999.37244981, max_relative = 5e-4);
     }
 
+    proptest::proptest! {
+        /// Invariants of any ellipse (vis-viva and the conic's angular
+        /// momentum): energy v^2/2 - mu/r = -mu/(2a) and
+        /// |r x v| = sqrt(mu a (1 - e^2)), and r between a(1-e) and a(1+e).
+        /// Tolerance 1e-11 relative: rounding, amplified at most ~1/(1-e)
+        /// for e <= 0.95 near periapsis.
+        #[test]
+        fn state_obeys_vis_viva(
+            a_km in 1.0e6f64..1.0e10,
+            e in 0.0f64..0.95,
+            i_deg in 0.0f64..180.0,
+            node_deg in -360.0f64..360.0,
+            peri_deg in -360.0f64..360.0,
+            mean_lon_deg in -1.0e5f64..1.0e5,
+        ) {
+            let el = MeanElements { a_km, e, i_deg, node_deg, peri_deg, mean_lon_deg };
+            let s = el.state(MU_SUN).expect("valid elements");
+            let r = s.r_km.norm();
+            let energy = 0.5 * s.v_km_s.norm_squared() - MU_SUN / r;
+            let want = -MU_SUN / (2.0 * a_km);
+            proptest::prop_assert!(((energy - want) / want).abs() < 1e-11);
+            let h = s.r_km.cross(&s.v_km_s).norm();
+            let h_want = (MU_SUN * a_km * (1.0 - e * e)).sqrt();
+            proptest::prop_assert!(((h - h_want) / h_want).abs() < 1e-11);
+            proptest::prop_assert!(r >= a_km * (1.0 - e) * (1.0 - 1e-12));
+            proptest::prop_assert!(r <= a_km * (1.0 + e) * (1.0 + 1e-12));
+        }
+    }
+
     #[test]
     fn degenerate_elements_are_errors() {
         let mut el = sample();
