@@ -22,6 +22,7 @@
 //! | [`export`] | atomic file writing | temp file, then rename |
 //! | [`sweep`] | the departure x arrival grid, in parallel | rayon over departure rows |
 //! | [`transfer`] | one transfer between two bodies: C3, DLA, RLA, v-infinity, delta-v | patched conics |
+//! | [`windows`] | optima refined on the Lambert objective, opportunity scans, launch periods | Nelder & Mead (1965), golden section |
 //!
 //! ## Units
 //!
@@ -45,5 +46,6 @@ pub mod orbit;
 pub mod sweep;
 pub mod time;
 pub mod transfer;
+pub mod windows;
 
 pub use error::{Error, Result};

@@ -55,6 +55,65 @@ pub enum Command {
     /// Example: synodic sweep --depart 2031-01-01..2031-06-30
     /// --tof-days 120..400 --step-days 2
     Sweep(SweepArgs),
+    /// Find and refine every opportunity of a span: the best-window table
+    /// per opportunity and Type, with launch periods.
+    ///
+    /// Example: synodic windows Teodra Kesh --span 2030-01-01..2050-01-01
+    /// --max-c3 12 --launch-period-days 21
+    Windows(WindowsArgs),
+}
+
+/// Arguments of `synodic windows`.
+#[derive(Debug, clap::Args)]
+pub struct WindowsArgs {
+    /// Departure body.
+    pub from: String,
+    /// Arrival body.
+    pub to: String,
+    /// Departure dates to search, START..END.
+    #[arg(long, value_name = "START..END")]
+    pub span: String,
+    /// System file (TOML); the built-in demo system when omitted.
+    #[arg(long, value_name = "FILE")]
+    pub system: Option<PathBuf>,
+    /// What to minimise: c3, vinf-arrive, dv-total or c3+vinf.
+    #[arg(long, value_name = "NAME", default_value = "c3")]
+    pub objective: String,
+    /// Time-of-flight limits MIN..MAX in days (0.3 to 2 Hohmann times when
+    /// omitted).
+    #[arg(long, value_name = "MIN..MAX")]
+    pub tof_days: Option<String>,
+    /// Launch-vehicle C3 ceiling (km^2/s^2): launch periods are reported
+    /// against it.
+    #[arg(long, value_name = "C3")]
+    pub max_c3: Option<f64>,
+    /// Arrival v-infinity ceiling (km/s).
+    #[arg(long, value_name = "KM_S")]
+    pub max_vinf_arrive: Option<f64>,
+    /// Also search multi-revolution arcs with up to M revolutions.
+    #[arg(long, value_name = "M", default_value_t = 0)]
+    pub revs: u32,
+    /// Length of a fixed-arrival-date launch period, in daily departures.
+    #[arg(long, value_name = "N", requires = "max_c3")]
+    pub launch_period_days: Option<u32>,
+    /// Altitude of the circular parking orbit at departure (km).
+    #[arg(long, value_name = "KM")]
+    pub park_alt_km: Option<f64>,
+    /// Periapsis altitude of the capture orbit (km).
+    #[arg(long, value_name = "KM")]
+    pub capture_alt_km: Option<f64>,
+    /// Eccentricity of the capture orbit.
+    #[arg(long, value_name = "E", default_value_t = 0.0, requires = "capture_alt_km")]
+    pub capture_ecc: f64,
+    /// Write the table as CSV here (launch-period tables go beside it).
+    #[arg(long, value_name = "FILE.csv")]
+    pub out: Option<PathBuf>,
+    /// Print JSON instead of a table.
+    #[arg(long)]
+    pub json: bool,
+    /// Worker threads.
+    #[arg(long, value_name = "N")]
+    pub threads: Option<usize>,
 }
 
 /// Arguments of `synodic sweep`.

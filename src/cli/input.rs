@@ -91,6 +91,25 @@ pub fn body_pair(system: &System, from: &str, to: &str) -> CliResult<(usize, usi
     Ok((a, b))
 }
 
+/// Parse `MIN..MAX` numbers (MAX not below MIN).
+pub fn parse_number_span(text: &str) -> Result<(f64, f64), String> {
+    let (a, b) = text
+        .split_once("..")
+        .ok_or_else(|| format!("expected MIN..MAX, got {text:?}"))?;
+    let num = |s: &str| {
+        s.trim()
+            .parse::<f64>()
+            .ok()
+            .filter(|x| x.is_finite())
+            .ok_or_else(|| format!("{s:?} is not a number"))
+    };
+    let (a, b) = (num(a)?, num(b)?);
+    if b < a {
+        return Err(format!("empty range {a}..{b}: MAX must not be below MIN"));
+    }
+    Ok((a, b))
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

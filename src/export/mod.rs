@@ -7,8 +7,10 @@
 //! file) and removes the temporary file.
 
 mod grid_csv;
+mod windows_csv;
 
 pub use grid_csv::{file_date, grid_csv, GRID_COLUMNS};
+pub use windows_csv::{launch_period_csv, table_date, windows_csv, WindowRecord, WINDOW_COLUMNS};
 
 use std::io::Write;
 use std::path::{Path, PathBuf};

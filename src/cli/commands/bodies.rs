@@ -106,8 +106,8 @@ fn table(r: &Report) -> String {
         .max(4);
     let _ = writeln!(
         s,
-        "{:<w$}  {:>9}  {:>7}  {:>6}  {:>8}  {:>8}  {:>8}  {:>10}",
-        "body", "a (au)", "e", "i (deg)", "node", "peri", "L0", "period (d)"
+        "{:<w$}  {:>9}  {:>7}  {:>7}  {:>8}  {:>8}  {:>8}  {:>10}",
+        "body", "a (au)", "e", "i (deg)", "node", "peri", "L", "period (d)"
     );
     for b in &r.bodies {
         let _ = writeln!(

@@ -6,6 +6,7 @@ mod bodies;
 mod lambert;
 mod sweep;
 mod transfer;
+mod windows;
 
 /// Run the chosen subcommand.
 pub fn run(args: Args) -> CliResult<Outcome> {
@@ -14,6 +15,7 @@ pub fn run(args: Args) -> CliResult<Outcome> {
         Command::Lambert(a) => lambert::run(&a),
         Command::Transfer(a) => transfer::run(&a),
         Command::Sweep(a) => sweep::run(&a),
+        Command::Windows(a) => windows::run(&a),
     }
 }
 

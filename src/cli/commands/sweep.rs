@@ -17,7 +17,7 @@ use synodic::transfer::Endpoints;
 
 use super::print;
 use crate::cli::args::SweepArgs;
-use crate::cli::input::{body_pair, load_system_with_hash, resolve_endpoints};
+use crate::cli::input::{body_pair, load_system_with_hash, parse_number_span, resolve_endpoints};
 use crate::cli::{CliResult, Outcome};
 
 /// The demo study's default pair: two bodies of the built-in system whose
@@ -159,24 +159,6 @@ fn parse_steps(text: &str) -> CliResult<(f64, f64)> {
         if !(s.is_finite() && s > 0.0) {
             return Err(format!("--step-days: steps must be > 0 days, got {s}").into());
         }
-    }
-    Ok((a, b))
-}
-
-fn parse_number_span(text: &str) -> Result<(f64, f64), String> {
-    let (a, b) = text
-        .split_once("..")
-        .ok_or_else(|| format!("expected MIN..MAX, got {text:?}"))?;
-    let num = |s: &str| {
-        s.trim()
-            .parse::<f64>()
-            .ok()
-            .filter(|x| x.is_finite())
-            .ok_or_else(|| format!("{s:?} is not a number"))
-    };
-    let (a, b) = (num(a)?, num(b)?);
-    if b < a {
-        return Err(format!("empty range {a}..{b}: MAX must not be below MIN"));
     }
     Ok((a, b))
 }
