@@ -164,7 +164,7 @@ pub fn grid_candidates(grid: &Grid, leg: &Leg<'_>, objective: Objective) -> Vec<
 }
 
 /// Refine a grid candidate on the Lambert objective, inside `bounds`, on
-/// the same layer and Type, to 1e-3 day in both dates.
+/// the same layer and Type, to 1e-4 day in both dates.
 ///
 /// The result is never worse than the candidate's cell: the search starts
 /// there and keeps its best point.
@@ -186,7 +186,7 @@ pub fn refine(leg: &Leg<'_>, grid: &Grid, c: &Candidate, objective: Objective, b
         }
     };
     let step = grid.depart.step_days.min(grid.second.step_days).max(1e-3);
-    let m = nelder_mead(eval, [d0, a0], [step, step], 1e-3, 2000);
+    let m = nelder_mead(eval, [d0, a0], [step, step], 1e-4, 4000);
     let figures = leg.figures(layer.revs, layer.branch, m.x[0], m.x[1])?;
     Some(Optimum {
         layer,
@@ -454,3 +454,6 @@ fn disambiguate_labels(windows: &mut [OpportunityWindow]) {
         }
     }
 }
+
+#[cfg(test)]
+mod tests;

@@ -7,13 +7,14 @@ use std::time::Instant;
 use indicatif::{ProgressBar, ProgressDrawTarget, ProgressStyle};
 use serde::Serialize;
 use synodic::ephemeris::System;
-use synodic::export::{ensure_dir, file_date, grid_csv, write_atomic};
+use synodic::export::{ensure_dir, file_date, grid_csv, windows_csv, write_atomic, WindowRecord};
 use synodic::opportunity::{hohmann_tof_days, next_opportunity};
 use synodic::sweep::{
     grid_minima, sweep, Axis, CellStatus, Grid, Objective, RunOptions, SecondAxis, SweepSpec,
 };
 use synodic::time::{parse_span, J2000_JD};
-use synodic::transfer::Endpoints;
+use synodic::transfer::{Endpoints, Leg};
+use synodic::windows::{optima_of_grid, Borders, Bounds};
 
 use super::print;
 use crate::cli::args::SweepArgs;
@@ -35,6 +36,7 @@ struct Plan {
     spec: SweepSpec,
     out: PathBuf,
     write_grid: bool,
+    write_windows: bool,
     threads: Option<usize>,
     memory_limit_bytes: u128,
 }
@@ -114,11 +116,13 @@ fn resolve(args: &SweepArgs) -> CliResult<Plan> {
         return Err("--threads must be at least 1".into());
     }
     let mut write_grid = true;
+    let mut write_windows = true;
     for item in &args.skip {
         match item.as_str() {
             "grid" => write_grid = false,
-            // Accepted now so scripts keep working when these files arrive.
-            "chart" | "windows" => {}
+            "windows" => write_windows = false,
+            // Accepted now so scripts keep working when charts arrive.
+            "chart" => {}
             other => {
                 return Err(format!(
                     "--skip: unknown output {other:?}; choose from grid, chart, windows"
@@ -141,6 +145,7 @@ fn resolve(args: &SweepArgs) -> CliResult<Plan> {
         },
         out: args.out.clone(),
         write_grid,
+        write_windows,
         threads: args.threads,
         memory_limit_bytes: (args.max_memory_gib * (1u64 << 30) as f64) as u128,
     })
@@ -276,6 +281,12 @@ pub fn run(args: &SweepArgs) -> CliResult<Outcome> {
         write_atomic(&path, &grid_csv(&grid, &spec.ends))?;
         written.push(path);
     }
+    if plan.write_windows {
+        let path = plan.out.join("windows.csv");
+        let records = refined_windows(&plan, &grid);
+        write_atomic(&path, &windows_csv(&records)?)?;
+        written.push(path);
+    }
     let path = plan.out.join("summary.json");
     let mut json = serde_json::to_string_pretty(&summary)?;
     json.push('\n');
@@ -291,6 +302,35 @@ pub fn run(args: &SweepArgs) -> CliResult<Outcome> {
         return Ok(Outcome::NothingFeasible);
     }
     Ok(Outcome::Done)
+}
+
+/// The grid's own optima, refined on the Lambert objective inside the
+/// grid's spans (minimum C3 per layer and Type).
+fn refined_windows(plan: &Plan, grid: &Grid) -> Vec<WindowRecord> {
+    let spec = &plan.spec;
+    let leg = Leg {
+        system: &plan.system,
+        from: spec.from,
+        to: spec.to,
+        ends: spec.ends,
+    };
+    let second = (spec.second.start_days, spec.second.end_days());
+    let bounds = Bounds {
+        depart: (spec.depart.start_days, spec.depart.end_days()),
+        arrive: (spec.second_kind == SecondAxis::Arrival).then_some(second),
+        tof: (spec.second_kind == SecondAxis::TimeOfFlight).then_some(second),
+    };
+    let borders = Borders {
+        depart_lo: true,
+        depart_hi: true,
+    };
+    optima_of_grid(&leg, grid, Objective::C3, &bounds, borders)
+        .iter()
+        .map(|o| {
+            let label: String = file_date(o.depart_days).chars().take(4).collect();
+            WindowRecord::new(&label, o, Objective::C3, false, None, None)
+        })
+        .collect()
 }
 
 fn axis_out(axis: &Axis, kind: SecondAxis, is_depart: bool) -> AxisOut {
