@@ -1,6 +1,18 @@
 //! Two-body orbits: states, propagation and conic elements.
+//!
+//! [`propagate`] moves a [`State`] along its conic with universal
+//! variables; [`conic_from_state`] reads the classical elements off a
+//! state. The Lambert solver ([`crate::lambert`]) is checked against both.
 
 use nalgebra::Vector3;
+
+mod conic;
+mod propagate;
+
+pub use conic::{
+    conic_from_state, Conic, ConicError, CIRCULAR_E, EQUATORIAL_SIN_I, PARABOLIC_ENERGY,
+};
+pub use propagate::{propagate, PropagateError};
 
 /// A position and velocity in an inertial frame.
 ///
