@@ -218,7 +218,7 @@ mod tests {
     /// sqrt(mu/r) (BMW 1971, sec. 1.8).
     #[test]
     fn circular_equatorial_conventions() {
-        let mu = 398_600.4418;
+        let mu = 398_600.441_8;
         let r = 8000.0;
         let lon = 123.0_f64.to_radians();
         for sense in [1.0, -1.0] {
@@ -250,7 +250,7 @@ mod tests {
     /// Source: conic relations, BMW (1971), sec. 1.5-1.6.
     #[test]
     fn parabola_and_hyperbola() {
-        let mu: f64 = 398_600.4418;
+        let mu: f64 = 398_600.441_8;
         let r = Vector3::<f64>::new(7000.0, 100.0, -300.0);
         let vesc = (2.0 * mu / r.norm()).sqrt();
         let dir = Vector3::new(0.1, 1.0, 0.4).normalize();
@@ -286,7 +286,7 @@ mod tests {
     /// Source: two-body conservation laws (BMW 1971, sec. 1.4-1.5).
     #[test]
     fn elements_constant_under_propagation() {
-        let mu = 398_600.4418;
+        let mu = 398_600.441_8;
         let s0 = State {
             r_km: Vector3::new(-6045.0, -3490.0, 2500.0),
             v_km_s: Vector3::new(-3.457, 6.618, 2.533),

@@ -319,7 +319,7 @@ mod tests {
     use approx::assert_relative_eq;
     use nalgebra::Vector3;
 
-    const MU_EARTH: f64 = 398_600.4418;
+    const MU_EARTH: f64 = 398_600.441_8;
 
     /// The series branch and the closed forms of the Stumpff functions
     /// must meet at |z| = 1 (each side is accurate to a few ulp there).
