@@ -1,6 +1,18 @@
 //! Two-body orbits: states, propagation and conic elements.
+//!
+//! [`propagate`] moves a [`State`] along its conic with universal
+//! variables; [`conic_from_state`] reads the classical elements off a
+//! state. The Lambert solver ([`crate::lambert`]) is checked against both.
 
 use nalgebra::Vector3;
+
+mod conic;
+mod propagate;
+
+pub use conic::{
+    conic_from_state, Conic, ConicError, CIRCULAR_E, EQUATORIAL_SIN_I, PARABOLIC_ENERGY,
+};
+pub use propagate::{propagate, PropagateError};
 
 /// A position and velocity in an inertial frame.
 ///
@@ -13,17 +25,4 @@ pub struct State {
     pub r_km: Vector3<f64>,
     /// Velocity, km/s.
     pub v_km_s: Vector3<f64>,
-}
-#[allow(missing_docs)]
-#[derive(Debug)]
-pub struct Conic {
-    pub a_km: f64,
-    pub e: f64,
-    pub i_deg: f64,
-    pub node_deg: f64,
-    pub arg_peri_deg: f64,
-}
-#[allow(missing_docs)]
-pub fn conic_from_state(_s: &State, _mu: f64) -> Result<Conic, crate::lambert::LambertError> {
-    unimplemented!()
 }

@@ -275,7 +275,7 @@ impl RowOut<'_> {
 
 /// Map a solver error to the cell status it stands for.
 fn status_of(err: &LambertError) -> CellStatus {
-    if lambert::is_not_converged(err) {
+    if matches!(err, LambertError::NotConverged { .. }) {
         CellStatus::NotConverged
     } else {
         CellStatus::NoSolution
