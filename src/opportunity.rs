@@ -65,7 +65,9 @@ pub fn next_opportunity(
         let lead = r2.y.atan2(r2.x) - r1.y.atan2(r1.x);
         (lead - required + PI).rem_euclid(TAU) - PI
     };
-    let steps = synodic.ceil() as usize + 2;
+    // One synodic period holds one crossing; a margin covers a crossing
+    // that falls just before `after_days`.
+    let steps = (1.05 * synodic).ceil() as usize + 2;
     let mut prev = error(after_days);
     for k in 1..=steps {
         let d = after_days + k as f64;
