@@ -470,8 +470,15 @@ impl Leg<'_> {
         let tof_s = tof_days * SECONDS_PER_DAY;
         let mu = self.system.central.mu_km3_s2;
         let sol = if revs == 0 {
-            lambert::solve_zero_rev(&s1.r_km, &s2.r_km, tof_s, mu, Direction::Prograde, Some(&normal))
-                .ok()?
+            lambert::solve_zero_rev(
+                &s1.r_km,
+                &s2.r_km,
+                tof_s,
+                mu,
+                Direction::Prograde,
+                Some(&normal),
+            )
+            .ok()?
         } else {
             let problem = LambertProblem {
                 r1: s1.r_km,

@@ -103,7 +103,12 @@ pub struct WindowsArgs {
     #[arg(long, value_name = "KM")]
     pub capture_alt_km: Option<f64>,
     /// Eccentricity of the capture orbit.
-    #[arg(long, value_name = "E", default_value_t = 0.0, requires = "capture_alt_km")]
+    #[arg(
+        long,
+        value_name = "E",
+        default_value_t = 0.0,
+        requires = "capture_alt_km"
+    )]
     pub capture_ecc: f64,
     /// Write the table as CSV here (launch-period tables go beside it).
     #[arg(long, value_name = "FILE.csv")]

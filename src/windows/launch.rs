@@ -86,14 +86,23 @@ fn same_kind(leg: &Leg<'_>, opt: &Optimum, depart_days: f64, arrive_days: f64) -
 /// Daily steps outward from the optimum's departure until
 /// [`min_c3_over_arrival`] exceeds the ceiling or the bounds end, then
 /// bisection on the crossing.
-pub fn launch_period(leg: &Leg<'_>, opt: &Optimum, bounds: &Bounds, max_c3_km2_s2: f64) -> Option<LaunchPeriod> {
+pub fn launch_period(
+    leg: &Leg<'_>,
+    opt: &Optimum,
+    bounds: &Bounds,
+    max_c3_km2_s2: f64,
+) -> Option<LaunchPeriod> {
     let f = |d: f64| min_c3_over_arrival(leg, opt, bounds, d);
     let d0 = opt.depart_days;
     if opt.figures.c3_km2_s2 > max_c3_km2_s2 && f(d0) > max_c3_km2_s2 {
         return None;
     }
     let edge = |dir: f64| -> f64 {
-        let limit = if dir < 0.0 { bounds.depart.0 } else { bounds.depart.1 };
+        let limit = if dir < 0.0 {
+            bounds.depart.0
+        } else {
+            bounds.depart.1
+        };
         let mut inside = d0;
         loop {
             let next = inside + dir;
@@ -162,7 +171,12 @@ pub struct FixedArrivalPeriod {
 /// the inner over the first departure date (so that the optimum's
 /// departure lies inside the period); the function minimised is the
 /// largest C3 over the `days` daily departures.
-pub fn fixed_arrival_period(leg: &Leg<'_>, opt: &Optimum, bounds: &Bounds, days: u32) -> Option<FixedArrivalPeriod> {
+pub fn fixed_arrival_period(
+    leg: &Leg<'_>,
+    opt: &Optimum,
+    bounds: &Bounds,
+    days: u32,
+) -> Option<FixedArrivalPeriod> {
     if days == 0 {
         return None;
     }
@@ -180,10 +194,20 @@ pub fn fixed_arrival_period(leg: &Leg<'_>, opt: &Optimum, bounds: &Bounds, days:
             .fold(0.0, f64::max)
     };
     let inner = |arrive: f64| -> (f64, f64) {
-        golden(|first| worst(first, arrive), opt.depart_days - span, opt.depart_days, 1e-3)
+        golden(
+            |first| worst(first, arrive),
+            opt.depart_days - span,
+            opt.depart_days,
+            1e-3,
+        )
     };
     let half_tof = 0.5 * (opt.arrive_days - opt.depart_days);
-    let (arrive, _) = golden(|a| inner(a).1, opt.arrive_days - half_tof, opt.arrive_days + half_tof, 1e-3);
+    let (arrive, _) = golden(
+        |a| inner(a).1,
+        opt.arrive_days - half_tof,
+        opt.arrive_days + half_tof,
+        1e-3,
+    );
     let (first, max_c3) = inner(arrive);
     if !max_c3.is_finite() {
         return None;

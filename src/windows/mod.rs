@@ -22,7 +22,9 @@ mod simplex;
 pub use simplex::{golden, nelder_mead, Minimum2};
 
 use crate::opportunity::next_opportunity;
-use crate::sweep::{self, Axis, CellStatus, Grid, Layer, Objective, RunOptions, SecondAxis, SweepSpec};
+use crate::sweep::{
+    self, Axis, CellStatus, Grid, Layer, Objective, RunOptions, SecondAxis, SweepSpec,
+};
 use crate::time::Epoch;
 use crate::transfer::{Figures, Leg, TransferType};
 
@@ -44,7 +46,9 @@ impl Bounds {
         let inside = |x: f64, (lo, hi): (f64, f64)| x >= lo && x <= hi;
         inside(depart_days, self.depart)
             && self.arrive.is_none_or(|a| inside(arrive_days, a))
-            && self.tof.is_none_or(|t| inside(arrive_days - depart_days, t))
+            && self
+                .tof
+                .is_none_or(|t| inside(arrive_days - depart_days, t))
     }
 
     /// Whether a pair lies within `margin_days` of a limit.
@@ -107,7 +111,11 @@ pub fn grid_candidates(grid: &Grid, leg: &Leg<'_>, objective: Objective) -> Vec<
     let mut out = Vec::new();
     for l in 0..grid.layers.len() {
         let value = |idx: usize| {
-            objective.value(&leg.ends, grid.vinf_depart_km_s[idx], grid.vinf_arrive_km_s[idx])
+            objective.value(
+                &leg.ends,
+                grid.vinf_depart_km_s[idx],
+                grid.vinf_arrive_km_s[idx],
+            )
         };
         for i in 0..ni {
             for j in 0..nj {
@@ -173,7 +181,13 @@ pub fn grid_candidates(grid: &Grid, leg: &Leg<'_>, objective: Objective) -> Vec<
 /// Nelder-Mead ([`nelder_mead`]) in (departure, arrival) with a first
 /// simplex of one grid step; infeasible points (outside `bounds`, other
 /// Type, no arc) count as +infinity.
-pub fn refine(leg: &Leg<'_>, grid: &Grid, c: &Candidate, objective: Objective, bounds: &Bounds) -> Option<Optimum> {
+pub fn refine(
+    leg: &Leg<'_>,
+    grid: &Grid,
+    c: &Candidate,
+    objective: Objective,
+    bounds: &Bounds,
+) -> Option<Optimum> {
     let layer = grid.layers[c.layer];
     let (d0, a0) = grid.dates_days(c.i, c.j);
     let eval = |x: [f64; 2]| -> f64 {
@@ -181,7 +195,9 @@ pub fn refine(leg: &Leg<'_>, grid: &Grid, c: &Candidate, objective: Objective, b
             return f64::INFINITY;
         }
         match leg.figures(layer.revs, layer.branch, x[0], x[1]) {
-            Some(f) if f.kind == c.kind => objective.value(&leg.ends, f.vinf_depart_km_s, f.vinf_arrive_km_s),
+            Some(f) if f.kind == c.kind => {
+                objective.value(&leg.ends, f.vinf_depart_km_s, f.vinf_arrive_km_s)
+            }
             _ => f64::INFINITY,
         }
     };
@@ -196,10 +212,15 @@ pub fn refine(leg: &Leg<'_>, grid: &Grid, c: &Candidate, objective: Objective, b
         value: m.value,
         grid_value: c.value,
         figures,
-        ridge: c.ridge,
+        // A refinement that slid onto the ridge is a ridge optimum too.
+        ridge: c.ridge || (figures.transfer_angle_deg - 180.0).abs() < RIDGE_BAND_DEG,
         edge: bounds.near_edge(m.x[0], m.x[1], 0.5 * step),
     })
 }
+
+/// Optima whose transfer angle lies within this many degrees of 180 are
+/// flagged `ridge`: there the transfer plane is ill-conditioned.
+pub const RIDGE_BAND_DEG: f64 = 1.0;
 
 /// Which of a grid's borders are real limits of the search (a minimum
 /// there is kept and flagged `edge`) rather than seams between adjacent
@@ -237,27 +258,33 @@ pub fn optima_of_grid(
                     && !(c.i == 0 && !borders.depart_lo)
                     && !(c.i == last_i && !borders.depart_hi)
             });
-            let best = |ridge: bool| -> Option<Optimum> {
-                group
-                    .clone()
-                    .filter(|c| c.ridge == ridge)
-                    .take(PER_GROUP)
-                    .filter_map(|c| refine(leg, grid, c, objective, bounds))
+            let refined: Vec<Optimum> = group
+                .clone()
+                .filter(|c| !c.ridge)
+                .take(PER_GROUP)
+                .chain(group.clone().filter(|c| c.ridge).take(PER_GROUP))
+                .filter_map(|c| refine(leg, grid, c, objective, bounds))
+                .collect();
+            let best = |keep: &dyn Fn(&Optimum) -> bool| {
+                refined
+                    .iter()
+                    .filter(|o| keep(o))
                     .min_by(|a, b| a.value.total_cmp(&b.value))
+                    .copied()
             };
-            let interior = best(false);
-            let ridge = best(true);
-            match (interior, ridge) {
-                (Some(i), Some(r)) => {
-                    let lower = r.value < i.value;
-                    out.push(i);
-                    if lower {
-                        out.push(r);
-                    }
-                }
-                (Some(i), None) => out.push(i),
-                (None, Some(r)) => out.push(r),
-                (None, None) => {}
+            let interior = best(&|o| !o.ridge && !o.edge);
+            let edge = best(&|o| !o.ridge && o.edge);
+            let ridge = best(&|o| o.ridge);
+            let value = |o: &Option<Optimum>| o.map_or(f64::INFINITY, |o| o.value);
+            // The interior optimum always; a minimum on a search limit only
+            // where the field keeps falling past it (lower than the rest);
+            // a ridge minimum only where it undercuts the interior one.
+            out.extend(interior);
+            if value(&edge) < value(&interior).min(value(&ridge)) {
+                out.extend(edge);
+            }
+            if value(&ridge) < value(&interior) {
+                out.extend(ridge);
             }
         }
     }
@@ -328,8 +355,15 @@ pub enum WindowError {
 ///
 /// # Errors
 /// [`WindowError`] for an empty span, bad limits or non-recurring bodies.
-pub fn scan(leg: &Leg<'_>, span_start_days: f64, span_end_days: f64, opts: &ScanOptions) -> Result<Vec<OpportunityWindow>, WindowError> {
-    if !(span_start_days.is_finite() && span_end_days.is_finite()) || span_end_days <= span_start_days {
+pub fn scan(
+    leg: &Leg<'_>,
+    span_start_days: f64,
+    span_end_days: f64,
+    opts: &ScanOptions,
+) -> Result<Vec<OpportunityWindow>, WindowError> {
+    if !(span_start_days.is_finite() && span_end_days.is_finite())
+        || span_end_days <= span_start_days
+    {
         return Err(WindowError::Span);
     }
     let system = leg.system;
@@ -362,7 +396,6 @@ pub fn scan(leg: &Leg<'_>, span_start_days: f64, span_end_days: f64, opts: &Scan
     if centres.len() < 2 {
         return Err(WindowError::NoRecurrence);
     }
-    let steps = opts.steps.max(10);
     let mut windows = Vec::new();
     for k in 1..centres.len() - 1 {
         let lo = 0.5 * (centres[k - 1] + centres[k]);
@@ -371,47 +404,35 @@ pub fn scan(leg: &Leg<'_>, span_start_days: f64, span_end_days: f64, opts: &Scan
         if d_hi <= d_lo {
             continue;
         }
-        let spec = SweepSpec {
-            from: leg.from,
-            to: leg.to,
-            depart: Axis::spanning(d_lo, d_hi, (d_hi - d_lo) / (steps - 1) as f64).map_err(|_| WindowError::Span)?,
-            second: Axis::spanning(tof.0, tof.1, ((tof.1 - tof.0) / (steps - 1) as f64).max(1e-3))
-                .map_err(|_| WindowError::Tof {
-                    min_days: tof.0,
-                    max_days: tof.1,
-                })?,
-            second_kind: SecondAxis::TimeOfFlight,
-            max_revs: opts.max_revs,
-            ends: leg.ends,
-        };
-        let grid = sweep::sweep(
-            system,
-            &spec,
-            RunOptions {
-                threads: opts.threads,
-                memory_limit_bytes: None,
-            },
-            || {},
-        )?;
-        let bounds = Bounds {
-            depart: (d_lo, d_hi),
-            arrive: None,
-            tof: Some(tof),
-        };
+        let clipped = d_lo > lo || d_hi < hi;
+        if clipped {
+            // Keep a window cut by the span only if its own optimum lies in
+            // the span or close to it; otherwise what the cut leaves is the
+            // rising flank of an opportunity outside the span.
+            let full = window_optima(
+                leg,
+                lo,
+                hi,
+                tof,
+                Borders {
+                    depart_lo: false,
+                    depart_hi: false,
+                },
+                opts,
+            )?;
+            let best = full.iter().min_by(|a, b| a.value.total_cmp(&b.value));
+            let margin = CLIPPED_MARGIN * synodic;
+            if best.is_none_or(|b| {
+                b.depart_days < span_start_days - margin || b.depart_days > span_end_days + margin
+            }) {
+                continue;
+            }
+        }
         let borders = Borders {
             depart_lo: d_lo <= span_start_days,
             depart_hi: d_hi >= span_end_days,
         };
-        let mut optima = optima_of_grid(leg, &grid, opts.objective, &bounds, borders);
-        // An edge flag on a seam between windows is not a real limit.
-        for o in &mut optima {
-            let near = 0.5 * spec.depart.step_days;
-            let at_seam_lo = !borders.depart_lo && o.depart_days - d_lo < near;
-            let at_seam_hi = !borders.depart_hi && d_hi - o.depart_days < near;
-            if (at_seam_lo || at_seam_hi) && !near_tof_edge(o, tof, spec.second.step_days) {
-                o.edge = false;
-            }
-        }
+        let optima = window_optima(leg, d_lo, d_hi, tof, borders, opts)?;
         if optima.is_empty() {
             continue;
         }
@@ -433,6 +454,66 @@ pub fn scan(leg: &Leg<'_>, span_start_days: f64, span_end_days: f64, opts: &Scan
     Ok(windows)
 }
 
+/// A window cut by the span's start or end is kept when its uncut optimum
+/// lies within this fraction of a synodic period of the span.
+const CLIPPED_MARGIN: f64 = 0.1;
+
+/// Sweep departures `[d_lo, d_hi]` x times of flight `tof` at the scan's
+/// coarse step and refine the optima.
+fn window_optima(
+    leg: &Leg<'_>,
+    d_lo: f64,
+    d_hi: f64,
+    tof: (f64, f64),
+    borders: Borders,
+    opts: &ScanOptions,
+) -> Result<Vec<Optimum>, WindowError> {
+    let steps = opts.steps.max(10);
+    let spec = SweepSpec {
+        from: leg.from,
+        to: leg.to,
+        depart: Axis::spanning(d_lo, d_hi, ((d_hi - d_lo) / (steps - 1) as f64).max(1e-3))
+            .map_err(|_| WindowError::Span)?,
+        second: Axis::spanning(
+            tof.0,
+            tof.1,
+            ((tof.1 - tof.0) / (steps - 1) as f64).max(1e-3),
+        )
+        .map_err(|_| WindowError::Tof {
+            min_days: tof.0,
+            max_days: tof.1,
+        })?,
+        second_kind: SecondAxis::TimeOfFlight,
+        max_revs: opts.max_revs,
+        ends: leg.ends,
+    };
+    let grid = sweep::sweep(
+        leg.system,
+        &spec,
+        RunOptions {
+            threads: opts.threads,
+            memory_limit_bytes: None,
+        },
+        || {},
+    )?;
+    let bounds = Bounds {
+        depart: (d_lo, d_hi),
+        arrive: None,
+        tof: Some(tof),
+    };
+    let mut optima = optima_of_grid(leg, &grid, opts.objective, &bounds, borders);
+    // An edge flag on a seam between windows is not a real limit.
+    for o in &mut optima {
+        let near = 0.5 * spec.depart.step_days;
+        let at_seam_lo = !borders.depart_lo && o.depart_days - d_lo < near;
+        let at_seam_hi = !borders.depart_hi && d_hi - o.depart_days < near;
+        if (at_seam_lo || at_seam_hi) && !near_tof_edge(o, tof, spec.second.step_days) {
+            o.edge = false;
+        }
+    }
+    Ok(optima)
+}
+
 fn near_tof_edge(o: &Optimum, tof: (f64, f64), step: f64) -> bool {
     let t = o.arrive_days - o.depart_days;
     t - tof.0 < 0.5 * step || tof.1 - t < 0.5 * step
@@ -440,14 +521,20 @@ fn near_tof_edge(o: &Optimum, tof: (f64, f64), step: f64) -> bool {
 
 /// The TDB calendar year of a date, as text.
 fn year_of(days: f64) -> String {
-    Epoch::from_days_since_j2000_tdb(days).date_tdb().chars().take(4).collect()
+    Epoch::from_days_since_j2000_tdb(days)
+        .date_tdb()
+        .chars()
+        .take(4)
+        .collect()
 }
 
 /// Two opportunities labelled with the same year become `2031a`, `2031b`.
 fn disambiguate_labels(windows: &mut [OpportunityWindow]) {
     let labels: Vec<String> = windows.iter().map(|w| w.label.clone()).collect();
     for (k, w) in windows.iter_mut().enumerate() {
-        let same: Vec<usize> = (0..labels.len()).filter(|&m| labels[m] == labels[k]).collect();
+        let same: Vec<usize> = (0..labels.len())
+            .filter(|&m| labels[m] == labels[k])
+            .collect();
         if same.len() > 1 {
             let pos = same.iter().position(|&m| m == k).unwrap_or(0);
             w.label = format!("{}{}", labels[k], (b'a' + pos as u8) as char);

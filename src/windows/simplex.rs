@@ -28,7 +28,13 @@ pub struct Minimum2 {
 /// (reflection 1, expansion 2, contraction 1/2, shrink 1/2) and the
 /// inside/outside contraction of Lagarias et al. (1998), *SIAM J. Optim.*
 /// 9(1), 112-147, section 2.
-pub fn nelder_mead<F>(mut f: F, start: [f64; 2], step: [f64; 2], tol: f64, max_evals: u32) -> Minimum2
+pub fn nelder_mead<F>(
+    mut f: F,
+    start: [f64; 2],
+    step: [f64; 2],
+    tol: f64,
+    max_evals: u32,
+) -> Minimum2
 where
     F: FnMut([f64; 2]) -> f64,
 {
@@ -57,7 +63,11 @@ where
         pts = [pts[order[0]], pts[order[1]], pts[order[2]]];
         vals = [vals[order[0]], vals[order[1]], vals[order[2]]];
         let spread = (1..3)
-            .map(|k| (pts[k][0] - pts[0][0]).abs().max((pts[k][1] - pts[0][1]).abs()))
+            .map(|k| {
+                (pts[k][0] - pts[0][0])
+                    .abs()
+                    .max((pts[k][1] - pts[0][1]).abs())
+            })
             .fold(0.0, f64::max);
         if spread < tol && vals[0].is_finite() {
             converged = true;
@@ -115,7 +125,9 @@ where
             used += 1;
         }
     }
-    let best = (0..3).min_by(|&a, &b| vals[a].total_cmp(&vals[b])).unwrap_or(0);
+    let best = (0..3)
+        .min_by(|&a, &b| vals[a].total_cmp(&vals[b]))
+        .unwrap_or(0);
     Minimum2 {
         x: pts[best],
         value: vals[best],
@@ -179,7 +191,10 @@ mod tests {
         let f = |x: [f64; 2]| 100.0 * (x[1] - x[0] * x[0]).powi(2) + (1.0 - x[0]).powi(2);
         let m = nelder_mead(f, [-1.2, 1.0], [0.1, 0.1], 1e-9, 5000);
         assert!(m.converged);
-        assert!((m.x[0] - 1.0).abs() < 1e-6 && (m.x[1] - 1.0).abs() < 1e-6, "{m:?}");
+        assert!(
+            (m.x[0] - 1.0).abs() < 1e-6 && (m.x[1] - 1.0).abs() < 1e-6,
+            "{m:?}"
+        );
     }
 
     #[test]

@@ -4,7 +4,7 @@
 use crate::ephemeris::{System, AU_KM};
 use crate::sweep::{self, Axis, Objective, RunOptions, SecondAxis, SweepSpec};
 use crate::time::Epoch;
-use crate::transfer::{EquatorFrame, Endpoints, Leg};
+use crate::transfer::{Endpoints, EquatorFrame, Leg};
 
 use super::launch::{fixed_arrival_period, launch_period, min_c3_over_arrival};
 use super::*;
@@ -92,14 +92,24 @@ fn refined_minimum_is_hohmann_and_recurs_synodically() {
         }
         let rel_c3 = (best.figures.c3_km2_s2 - c3_h) / c3_h;
         let tof = best.arrive_days - best.depart_days;
-        assert!(rel_c3.abs() < 1e-6, "C3 {} vs Hohmann {c3_h}", best.figures.c3_km2_s2);
-        assert!(((tof - t_h) / t_h).abs() < 1e-6, "tof {tof} vs Hohmann {t_h}");
+        assert!(
+            rel_c3.abs() < 1e-6,
+            "C3 {} vs Hohmann {c3_h}",
+            best.figures.c3_km2_s2
+        );
+        assert!(
+            ((tof - t_h) / t_h).abs() < 1e-6,
+            "tof {tof} vs Hohmann {t_h}"
+        );
         assert!(best.value <= best.grid_value, "refinement made it worse");
         departures.push(best.depart_days);
     }
     assert!(departures.len() >= 2);
     for pair in departures.windows(2) {
-        assert!((pair[1] - pair[0] - synodic).abs() < 0.01, "{pair:?} vs {synodic}");
+        assert!(
+            (pair[1] - pair[0] - synodic).abs() < 0.01,
+            "{pair:?} vs {synodic}"
+        );
     }
 }
 
@@ -117,7 +127,9 @@ fn refined_optimum_matches_fine_brute_force() {
         to,
         ends: bare(),
     };
-    let start = Epoch::parse("2031-01-01").expect("date").days_since_j2000_tdb();
+    let start = Epoch::parse("2031-01-01")
+        .expect("date")
+        .days_since_j2000_tdb();
     let windows = scan(&leg, start, start + 600.0, &opts()).expect("scan");
     let opt = windows
         .iter()
@@ -141,8 +153,16 @@ fn refined_optimum_matches_fine_brute_force() {
         .map(|m| m.value)
         .fold(f64::INFINITY, f64::min);
     assert!(fine.is_finite());
-    assert!(opt.value <= fine + 1e-9, "refined {} above fine grid {fine}", opt.value);
-    assert!(fine - opt.value < 1e-3, "refined {} vs fine grid {fine}", opt.value);
+    assert!(
+        opt.value <= fine + 1e-9,
+        "refined {} above fine grid {fine}",
+        opt.value
+    );
+    assert!(
+        fine - opt.value < 1e-3,
+        "refined {} vs fine grid {fine}",
+        opt.value
+    );
 }
 
 /// Earth to Mars minimum-C3 opportunities from 2026 to 2035 lie in the
@@ -157,7 +177,9 @@ fn earth_mars_minimum_c3_2026_to_2035_in_handbook_band() {
         "standish-table1.toml",
     )
     .expect("fixture parses");
-    let earth = system.find("Earth-Moon Barycenter").expect("EMB in fixture");
+    let earth = system
+        .find("Earth-Moon Barycenter")
+        .expect("EMB in fixture");
     let mars = system.find("Mars").expect("Mars in fixture");
     let leg = Leg {
         system: &system,
@@ -165,8 +187,12 @@ fn earth_mars_minimum_c3_2026_to_2035_in_handbook_band() {
         to: mars,
         ends: bare(),
     };
-    let s0 = Epoch::parse("2026-01-01").expect("date").days_since_j2000_tdb();
-    let s1 = Epoch::parse("2035-12-31").expect("date").days_since_j2000_tdb();
+    let s0 = Epoch::parse("2026-01-01")
+        .expect("date")
+        .days_since_j2000_tdb();
+    let s1 = Epoch::parse("2035-12-31")
+        .expect("date")
+        .days_since_j2000_tdb();
     let o = ScanOptions {
         tof_days: Some((100.0, 500.0)),
         ..opts()
@@ -202,10 +228,19 @@ fn launch_period_ends_sit_on_the_ceiling() {
         to,
         ends: bare(),
     };
-    let start = Epoch::parse("2031-01-01").expect("date").days_since_j2000_tdb();
+    let start = Epoch::parse("2031-01-01")
+        .expect("date")
+        .days_since_j2000_tdb();
     let windows = scan(&leg, start, start + 900.0, &opts()).expect("scan");
-    let w = windows.iter().find(|w| w.optima.iter().any(|o| !o.ridge && !o.edge)).expect("window");
-    let opt = w.optima.iter().find(|o| !o.ridge && !o.edge).expect("optimum");
+    let w = windows
+        .iter()
+        .find(|w| w.optima.iter().any(|o| !o.ridge && !o.edge))
+        .expect("window");
+    let opt = w
+        .optima
+        .iter()
+        .find(|o| !o.ridge && !o.edge)
+        .expect("optimum");
     let bounds = Bounds {
         depart: w.depart,
         arrive: None,
@@ -215,7 +250,10 @@ fn launch_period_ends_sit_on_the_ceiling() {
     let lp = launch_period(&leg, opt, &bounds, ceiling).expect("open");
     assert!(lp.days_open() > 1.0);
     assert!(lp.first_days <= opt.depart_days && opt.depart_days <= lp.last_days);
-    for (inside, outside) in [(lp.first_days, lp.first_days - 0.02), (lp.last_days, lp.last_days + 0.02)] {
+    for (inside, outside) in [
+        (lp.first_days, lp.first_days - 0.02),
+        (lp.last_days, lp.last_days + 0.02),
+    ] {
         assert!(min_c3_over_arrival(&leg, opt, &bounds, inside) <= ceiling);
         assert!(min_c3_over_arrival(&leg, opt, &bounds, outside) > ceiling);
     }
@@ -229,5 +267,8 @@ fn launch_period_ends_sit_on_the_ceiling() {
         .fold(0.0, f64::max);
     assert!((worst - fixed.max_c3_km2_s2).abs() < 1e-9);
     assert!(fixed.max_c3_km2_s2 >= opt.figures.c3_km2_s2 - 1e-9);
-    assert!(fixed.daily.iter().all(|d| d.figures.is_some_and(|f| f.kind == opt.kind)));
+    assert!(fixed
+        .daily
+        .iter()
+        .all(|d| d.figures.is_some_and(|f| f.kind == opt.kind)));
 }

@@ -68,7 +68,10 @@ fn thread_count_does_not_change_a_byte() {
 fn skip_grid_leaves_it_out() {
     let d = Dir::new("skip");
     d.run(&["sweep", "--skip", "grid", "--quiet"]).ok();
-    assert_eq!(d.files("synodic-out"), vec!["summary.json".to_string(), "windows.csv".to_string()]);
+    assert_eq!(
+        d.files("synodic-out"),
+        vec!["summary.json".to_string(), "windows.csv".to_string()]
+    );
 }
 
 #[test]

@@ -69,7 +69,8 @@ fn resolve(args: &SweepArgs) -> CliResult<Plan> {
             let opp = next_opportunity(&system, from, to, system.epoch.days_since_j2000_tdb())
                 .ok_or("the two bodies share a period: give --depart START..END")?;
             let half = (0.12 * opp.synodic_days).clamp(60.0, 200.0).round();
-            let centre = opp.depart_days.round();
+            // Days past J2000 count from noon: round to a TDB midnight.
+            let centre = (opp.depart_days - 0.5).round() + 0.5;
             (centre - half, centre + half)
         }
     };

@@ -46,7 +46,9 @@ pub fn tabulate(
         for opt in &w.optima {
             let f = &opt.figures;
             let over = limits.max_c3.is_some_and(|m| f.c3_km2_s2 > m)
-                || limits.max_vinf_arrive.is_some_and(|m| f.vinf_arrive_km_s > m);
+                || limits
+                    .max_vinf_arrive
+                    .is_some_and(|m| f.vinf_arrive_km_s > m);
             let lp = limits
                 .max_c3
                 .filter(|_| !opt.ridge)
@@ -55,7 +57,8 @@ pub fn tabulate(
                 (Some(n), Some(_)) => fixed_arrival_period(leg, opt, &bounds, n),
                 _ => None,
             };
-            let rec = WindowRecord::new(&w.label, opt, objective, over, lp.as_ref(), fixed.as_ref());
+            let rec =
+                WindowRecord::new(&w.label, opt, objective, over, lp.as_ref(), fixed.as_ref());
             out.push((rec, fixed));
         }
     }
@@ -93,13 +96,18 @@ pub fn run(args: &WindowsArgs) -> CliResult<Outcome> {
         Some(t) => {
             let (lo, hi) = parse_number_span(t).map_err(|e| format!("--tof-days: {e}"))?;
             if lo <= 0.0 {
-                return Err(format!("--tof-days: times of flight must be > 0 days, got {lo}").into());
+                return Err(
+                    format!("--tof-days: times of flight must be > 0 days, got {lo}").into(),
+                );
             }
             Some((lo, hi))
         }
         None => None,
     };
-    for (name, v) in [("--max-c3", args.max_c3), ("--max-vinf-arrive", args.max_vinf_arrive)] {
+    for (name, v) in [
+        ("--max-c3", args.max_c3),
+        ("--max-vinf-arrive", args.max_vinf_arrive),
+    ] {
         if let Some(x) = v {
             if !(x.is_finite() && x >= 0.0) {
                 return Err(format!("{name} must be a number >= 0, got {x}").into());
@@ -188,8 +196,14 @@ fn daily_out(p: &FixedArrivalPeriod) -> Vec<DailyOut> {
 }
 
 /// `launch-period-<opportunity>-<type>[-<revs><branch>].csv` beside `out`.
-pub fn write_daily_tables(out: &Path, rows: &[(WindowRecord, Option<FixedArrivalPeriod>)]) -> CliResult<Vec<PathBuf>> {
-    let dir = out.parent().filter(|p| !p.as_os_str().is_empty()).unwrap_or(Path::new("."));
+pub fn write_daily_tables(
+    out: &Path,
+    rows: &[(WindowRecord, Option<FixedArrivalPeriod>)],
+) -> CliResult<Vec<PathBuf>> {
+    let dir = out
+        .parent()
+        .filter(|p| !p.as_os_str().is_empty())
+        .unwrap_or(Path::new("."));
     let mut written = Vec::new();
     for (r, fixed) in rows {
         if let Some(p) = fixed {
@@ -207,7 +221,11 @@ pub fn write_daily_tables(out: &Path, rows: &[(WindowRecord, Option<FixedArrival
 }
 
 /// The aligned best-window table.
-pub fn table(title: &str, rows: &[(WindowRecord, Option<FixedArrivalPeriod>)], max_c3: Option<f64>) -> String {
+pub fn table(
+    title: &str,
+    rows: &[(WindowRecord, Option<FixedArrivalPeriod>)],
+    max_c3: Option<f64>,
+) -> String {
     let mut s = String::new();
     let _ = writeln!(s, "{title}\n");
     let _ = writeln!(
@@ -223,7 +241,11 @@ pub fn table(title: &str, rows: &[(WindowRecord, Option<FixedArrivalPeriod>)], m
         } else {
             format!("{} {}", r.revs, r.branch)
         };
-        let lp = match (&r.launch_first_date, &r.launch_last_date, r.launch_days_open) {
+        let lp = match (
+            &r.launch_first_date,
+            &r.launch_last_date,
+            r.launch_days_open,
+        ) {
             (Some(a), Some(b), Some(d)) => format!("{}..{} ({d:.1})", &a[5..10], &b[5..10]),
             _ if max_c3.is_some() => "closed".to_string(),
             _ => String::new(),
