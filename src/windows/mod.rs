@@ -255,8 +255,8 @@ pub fn optima_of_grid(
             let group = candidates.iter().filter(|c| {
                 c.layer == l
                     && c.kind == kind
-                    && !(c.i == 0 && !borders.depart_lo)
-                    && !(c.i == last_i && !borders.depart_hi)
+                    && (c.i != 0 || borders.depart_lo)
+                    && (c.i != last_i || borders.depart_hi)
             });
             let refined: Vec<Optimum> = group
                 .clone()

@@ -230,10 +230,9 @@ pub fn table(
     let _ = writeln!(s, "{title}\n");
     let _ = writeln!(
         s,
-        "{:<7} {:<4} {:<8} {:<16} {:<16} {:>7} {:>8} {:>7} {:>7} {:>7} {:>7} {:>7} {:>7}  {:<24} {}",
+        "{:<7} {:<4} {:<8} {:<16} {:<16} {:>7} {:>8} {:>7} {:>7} {:>7} {:>7} {:>7} {:>7}  {:<24} flags",
         "opport.", "type", "revs", "depart", "arrive", "tof d", "C3", "DLA", "RLA", "vinf o", "vinf i", "dec i", "dv tot",
         if max_c3.is_some() { "launch period (days)" } else { "" },
-        "flags"
     );
     for (r, fixed) in rows {
         let revs = if r.revs == 0 {
