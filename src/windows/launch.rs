@@ -24,7 +24,7 @@ impl LaunchPeriod {
 /// Samples of time of flight scanned per departure date before the golden
 /// refinement: fine enough that the minimum over arrival is not missed on
 /// the smooth fields of a single Type.
-const TOF_SAMPLES: usize = 48;
+pub const TOF_SAMPLES: usize = 48;
 
 /// The lowest C3 (km^2/s^2) over arrival dates allowed by `bounds`, on the
 /// optimum's layer and Type, for departure `depart_days`; infinity when no
