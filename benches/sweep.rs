@@ -69,6 +69,54 @@ fn run(system: &System, spec: &SweepSpec, threads: Option<usize>) {
     black_box(&grid);
 }
 
+/// The reference for the sweep's speed target: the same n x n Lambert
+/// solves with nothing else (states precomputed), over all cores.
+fn bare_lambert(system: &System, spec: &SweepSpec) -> usize {
+    use rayon::prelude::*;
+    use synodic::lambert::{solve_zero_rev, Direction};
+    let dep: Vec<_> = spec
+        .depart
+        .values()
+        .iter()
+        .map(|&d| system.state_at_days(spec.from, d))
+        .collect();
+    let n2 = spec.second.count;
+    let mu = system.central.mu_km3_s2;
+    // Departure and time-of-flight steps are equal in `spec`, so arrival
+    // (i, j) falls on lattice point i + j.
+    let arr: Vec<_> = (0..dep.len() + n2)
+        .map(|k| {
+            let d =
+                spec.depart.start_days + spec.second.start_days + k as f64 * spec.depart.step_days;
+            system.state_at_days(spec.to, d)
+        })
+        .collect();
+    dep.par_iter()
+        .enumerate()
+        .map(|(i, s1)| {
+            let normal = s1.r_km.cross(&s1.v_km_s);
+            let mut ok = 0usize;
+            for j in 0..n2 {
+                let tof = spec.second.value(j);
+                let s2 = &arr[i + j];
+                if solve_zero_rev(
+                    &s1.r_km,
+                    &s2.r_km,
+                    tof * 86_400.0,
+                    mu,
+                    Direction::Prograde,
+                    Some(&normal),
+                )
+                .is_ok()
+                {
+                    ok += 1;
+                }
+            }
+            ok
+        })
+        .sum()
+}
+
 fn main() {
     let mut c = Criterion::default().configure_from_args().sample_size(10);
     let system = System::demo();
@@ -81,6 +129,18 @@ fn main() {
                 b.iter(|| run(&system, black_box(s), None))
             });
         }
+        g.finish();
+    }
+    {
+        let mut g = c.benchmark_group("sweep/bare_lambert");
+        let s = spec(&system, 1000);
+        g.throughput(Throughput::Elements(1000 * 1000));
+        g.bench_function("1000", |b| {
+            b.iter(|| {
+                let ok = bare_lambert(&system, black_box(&s));
+                assert!(ok > 900_000, "{ok}");
+            })
+        });
         g.finish();
     }
     {

@@ -20,6 +20,7 @@
 //! | [`ephemeris`] | mean-element bodies, system files, Kepler's equation | Standish, *Keplerian Elements for Approximate Positions of the Major Planets* |
 //! | [`lambert`] | Lambert's two-point boundary-value problem | Izzo (2015) |
 //! | [`export`] | atomic file writing | temp file, then rename |
+//! | [`study`] | study files: a whole run in one TOML file | serde + toml |
 //! | [`sweep`] | the departure x arrival grid, in parallel | rayon over departure rows |
 //! | [`transfer`] | one transfer between two bodies: C3, DLA, RLA, v-infinity, delta-v | patched conics |
 //! | [`windows`] | optima refined on the Lambert objective, opportunity scans, launch periods | Nelder & Mead (1965), golden section |
@@ -43,6 +44,7 @@ pub mod export;
 pub mod lambert;
 pub mod opportunity;
 pub mod orbit;
+pub mod study;
 pub mod sweep;
 pub mod time;
 pub mod transfer;

@@ -61,6 +61,30 @@ pub enum Command {
     /// Example: synodic windows Teodra Kesh --span 2030-01-01..2050-01-01
     /// --max-c3 12 --launch-period-days 21
     Windows(WindowsArgs),
+    /// Run a study file: every pair's sweep and window scan, with the
+    /// resolved study written beside the outputs.
+    ///
+    /// Example: synodic run examples/cargo-runs/study.toml
+    Run(RunArgs),
+}
+
+/// Arguments of `synodic run`.
+#[derive(Debug, clap::Args)]
+pub struct RunArgs {
+    /// The study file (TOML).
+    pub study: PathBuf,
+    /// Output folder (overrides the study's `out`).
+    #[arg(long, value_name = "DIR")]
+    pub out: Option<PathBuf>,
+    /// Worker threads. Results do not depend on it.
+    #[arg(long, value_name = "N")]
+    pub threads: Option<usize>,
+    /// No progress bar.
+    #[arg(long)]
+    pub quiet: bool,
+    /// Print JSON summaries.
+    #[arg(long)]
+    pub json: bool,
 }
 
 /// Arguments of `synodic windows`.
@@ -119,6 +143,9 @@ pub struct WindowsArgs {
     /// Worker threads.
     #[arg(long, value_name = "N")]
     pub threads: Option<usize>,
+    /// Also save this run as a study file, to repeat it with `synodic run`.
+    #[arg(long, value_name = "FILE")]
+    pub save_study: Option<PathBuf>,
 }
 
 /// Arguments of `synodic sweep`.
@@ -183,6 +210,9 @@ pub struct SweepArgs {
     /// No progress bar.
     #[arg(long)]
     pub quiet: bool,
+    /// Also save this run as a study file, to repeat it with `synodic run`.
+    #[arg(long, value_name = "FILE")]
+    pub save_study: Option<PathBuf>,
 }
 
 /// Arguments of `synodic lambert`.

@@ -23,7 +23,14 @@ fn demo_study_writes_grid_and_summary() {
     )
     .expect("JSON");
     assert_eq!(s["from"], "Teodra");
-    assert_eq!(s["system"]["sha256"].as_str().map(str::len), Some(64));
+    assert_eq!(
+        s["provenance"]["system_sha256"].as_str().map(str::len),
+        Some(64)
+    );
+    assert_eq!(
+        s["provenance"]["study_sha256"].as_str().map(str::len),
+        Some(64)
+    );
     let rows_total = s["grid"]["rows"].as_u64().expect("rows");
     assert_eq!(rows_total as usize, rows.len());
     let minima = s["minima"].as_array().expect("minima");
@@ -70,7 +77,7 @@ fn skip_grid_leaves_it_out() {
     d.run(&["sweep", "--skip", "grid", "--quiet"]).ok();
     assert_eq!(
         d.files("synodic-out"),
-        vec!["summary.json".to_string(), "windows.csv".to_string()]
+        ["run-info.json", "study.toml", "summary.json", "windows.csv"]
     );
 }
 

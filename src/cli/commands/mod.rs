@@ -4,6 +4,8 @@ use super::{Args, CliResult, Command, Outcome};
 
 mod bodies;
 mod lambert;
+mod run;
+mod study;
 mod sweep;
 mod transfer;
 mod windows;
@@ -16,6 +18,7 @@ pub fn run(args: Args) -> CliResult<Outcome> {
         Command::Transfer(a) => transfer::run(&a),
         Command::Sweep(a) => sweep::run(&a),
         Command::Windows(a) => windows::run(&a),
+        Command::Run(a) => run::run(&a),
     }
 }
 

@@ -1,24 +1,24 @@
 //! `synodic sweep`: the departure x arrival grid and its files.
 
 use std::fmt::Write as _;
-use std::path::PathBuf;
+use std::path::{Path, PathBuf};
 use std::time::Instant;
 
 use indicatif::{ProgressBar, ProgressDrawTarget, ProgressStyle};
 use serde::Serialize;
 use synodic::ephemeris::System;
 use synodic::export::{ensure_dir, file_date, grid_csv, windows_csv, write_atomic, WindowRecord};
-use synodic::opportunity::{hohmann_tof_days, next_opportunity};
+use synodic::study::{relative_path, Limits, Orbits, Outputs, Pair, Study, SweepSection};
 use synodic::sweep::{
     grid_minima, sweep, Axis, CellStatus, Grid, Objective, RunOptions, SecondAxis, SweepSpec,
 };
-use synodic::time::{parse_span, J2000_JD};
-use synodic::transfer::{Endpoints, Leg};
-use synodic::windows::{optima_of_grid, Borders, Bounds};
+use synodic::time::J2000_JD;
+use synodic::transfer::Leg;
+use synodic::windows::{optima_of_grid, Borders, Bounds, Optimum};
 
-use super::print;
+use super::study::{execute, save_study, Origin, PartResult, Provenance, RunFlags};
 use crate::cli::args::SweepArgs;
-use crate::cli::input::{body_pair, load_system_with_hash, parse_number_span, resolve_endpoints};
+use crate::cli::input::parse_number_span;
 use crate::cli::{CliResult, Outcome};
 
 /// The demo study's default pair: two bodies of the built-in system whose
@@ -28,146 +28,6 @@ pub const DEMO_PAIR: (&str, &str) = ("Teodra", "Kesh");
 const CAUTION: &str = "Preliminary patched-conic design figures from mean-element \
 ephemerides; not a flight product. Defer to the mission's navigation and flight-dynamics \
 processes and applicable standards.";
-
-/// A resolved, validated sweep.
-struct Plan {
-    system: System,
-    system_sha256: String,
-    spec: SweepSpec,
-    out: PathBuf,
-    write_grid: bool,
-    write_windows: bool,
-    threads: Option<usize>,
-    memory_limit_bytes: u128,
-}
-
-fn resolve(args: &SweepArgs) -> CliResult<Plan> {
-    let (system, system_sha256) = load_system_with_hash(args.system.as_deref())?;
-    let (from_name, to_name) = match (&args.from, &args.to) {
-        (Some(f), Some(t)) => (f.clone(), t.clone()),
-        _ if args.system.is_some() => {
-            return Err("with --system, name the departure and arrival bodies: \
-                        synodic sweep FROM TO --system FILE"
-                .into())
-        }
-        _ => (DEMO_PAIR.0.to_string(), DEMO_PAIR.1.to_string()),
-    };
-    let (from, to) = body_pair(&system, &from_name, &to_name)?;
-    let (step_d, step_s) = parse_steps(&args.step_days)?;
-    let mu = system.central.mu_km3_s2;
-    let t_h = hohmann_tof_days(
-        system.bodies[from].elements.a_km,
-        system.bodies[to].elements.a_km,
-        mu,
-    );
-    let (d0, d1) = match &args.depart {
-        Some(text) => {
-            let (a, b) = parse_span(text).map_err(|e| format!("--depart: {e}"))?;
-            (a.days_since_j2000_tdb(), b.days_since_j2000_tdb())
-        }
-        None => {
-            let opp = next_opportunity(&system, from, to, system.epoch.days_since_j2000_tdb())
-                .ok_or("the two bodies share a period: give --depart START..END")?;
-            let half = (0.12 * opp.synodic_days).clamp(60.0, 200.0).round();
-            // Days past J2000 count from noon: round to a TDB midnight.
-            let centre = (opp.depart_days - 0.5).round() + 0.5;
-            (centre - half, centre + half)
-        }
-    };
-    let depart = Axis::spanning(d0, d1, step_d).map_err(|e| format!("--depart: {e}"))?;
-    let (second, second_kind) = match (&args.arrive, &args.tof_days) {
-        (Some(text), _) => {
-            let (a, b) = parse_span(text).map_err(|e| format!("--arrive: {e}"))?;
-            let (a, b) = (a.days_since_j2000_tdb(), b.days_since_j2000_tdb());
-            if b <= d0 {
-                return Err(
-                    "--arrive: the arrival span ends before the departure span starts".into(),
-                );
-            }
-            let axis = Axis::spanning(a, b, step_s).map_err(|e| format!("--arrive: {e}"))?;
-            (axis, SecondAxis::Arrival)
-        }
-        (None, Some(text)) => {
-            let (lo, hi) = parse_number_span(text).map_err(|e| format!("--tof-days: {e}"))?;
-            if lo <= 0.0 {
-                return Err(
-                    format!("--tof-days: times of flight must be > 0 days, got {lo}").into(),
-                );
-            }
-            let axis = Axis::spanning(lo, hi, step_s).map_err(|e| format!("--tof-days: {e}"))?;
-            (axis, SecondAxis::TimeOfFlight)
-        }
-        (None, None) => {
-            let a = (d0 + 0.5 * t_h).round();
-            let b = (d1 + 1.5 * t_h).round();
-            (Axis::spanning(a, b, step_s)?, SecondAxis::Arrival)
-        }
-    };
-    let ends: Endpoints = resolve_endpoints(
-        &system.bodies[from],
-        &system.bodies[to],
-        args.park_alt_km,
-        args.capture_alt_km,
-        args.capture_ecc,
-    )?;
-    if !(args.max_memory_gib.is_finite() && args.max_memory_gib > 0.0) {
-        return Err(format!("--max-memory-gib must be > 0, got {}", args.max_memory_gib).into());
-    }
-    if args.threads == Some(0) {
-        return Err("--threads must be at least 1".into());
-    }
-    let mut write_grid = true;
-    let mut write_windows = true;
-    for item in &args.skip {
-        match item.as_str() {
-            "grid" => write_grid = false,
-            "windows" => write_windows = false,
-            // Accepted now so scripts keep working when charts arrive.
-            "chart" => {}
-            other => {
-                return Err(format!(
-                    "--skip: unknown output {other:?}; choose from grid, chart, windows"
-                )
-                .into())
-            }
-        }
-    }
-    Ok(Plan {
-        system,
-        system_sha256,
-        spec: SweepSpec {
-            from,
-            to,
-            depart,
-            second,
-            second_kind,
-            max_revs: args.revs,
-            ends,
-        },
-        out: args.out.clone(),
-        write_grid,
-        write_windows,
-        threads: args.threads,
-        memory_limit_bytes: (args.max_memory_gib * (1u64 << 30) as f64) as u128,
-    })
-}
-
-fn parse_steps(text: &str) -> CliResult<(f64, f64)> {
-    let nums: Result<Vec<f64>, _> = text.split(',').map(|p| p.trim().parse::<f64>()).collect();
-    let nums =
-        nums.map_err(|_| format!("--step-days: expected D or D1,D2 in days, got {text:?}"))?;
-    let (a, b) = match nums.as_slice() {
-        [a] => (*a, *a),
-        [a, b] => (*a, *b),
-        _ => return Err(format!("--step-days: expected D or D1,D2 in days, got {text:?}").into()),
-    };
-    for s in [a, b] {
-        if !(s.is_finite() && s > 0.0) {
-            return Err(format!("--step-days: steps must be > 0 days, got {s}").into());
-        }
-    }
-    Ok((a, b))
-}
 
 #[derive(Debug, Serialize)]
 struct AxisOut {
@@ -200,7 +60,8 @@ struct MinimumOut {
 struct Summary {
     tool: String,
     caution: &'static str,
-    system: SystemOut,
+    provenance: Provenance,
+    central_mu_km3_s2: f64,
     from: String,
     to: String,
     depart_axis: AxisOut,
@@ -208,14 +69,6 @@ struct Summary {
     options: OptionsOut,
     grid: GridOut,
     minima: Vec<MinimumOut>,
-}
-
-#[derive(Debug, Serialize)]
-struct SystemOut {
-    name: String,
-    source: String,
-    sha256: String,
-    central_mu_km3_s2: f64,
 }
 
 #[derive(Debug, Serialize)]
@@ -238,16 +91,137 @@ struct GridOut {
 }
 
 pub fn run(args: &SweepArgs) -> CliResult<Outcome> {
-    let plan = resolve(args)?;
-    let spec = &plan.spec;
+    let study = study_from_args(args)?;
+    let cwd = PathBuf::from(".");
+    if let Some(path) = &args.save_study {
+        let mut saved = study.clone();
+        if let Some(sys) = &args.system {
+            let dir = path
+                .parent()
+                .filter(|p| !p.as_os_str().is_empty())
+                .unwrap_or(Path::new("."));
+            saved.system = relative_path(dir, sys).display().to_string();
+        }
+        saved.out = Some(relative_path_lossy(path, &args.out));
+        save_study(&saved, path)?;
+    }
+    execute(
+        &study,
+        &Origin::Cli,
+        &cwd,
+        Some(&args.out),
+        RunFlags {
+            threads: args.threads,
+            quiet: args.quiet,
+            json: args.json,
+        },
+    )
+}
+
+/// The output folder as seen from the saved study's folder.
+fn relative_path_lossy(study_path: &Path, out: &Path) -> String {
+    let dir = study_path
+        .parent()
+        .filter(|p| !p.as_os_str().is_empty())
+        .unwrap_or(Path::new("."));
+    if ensure_dir(out).is_ok() {
+        return relative_path(dir, out).display().to_string();
+    }
+    out.display().to_string()
+}
+
+/// The command line as a study.
+fn study_from_args(args: &SweepArgs) -> CliResult<Study> {
+    let (from, to) = match (&args.from, &args.to) {
+        (Some(f), Some(t)) => (f.clone(), t.clone()),
+        _ if args.system.is_some() => {
+            return Err("with --system, name the departure and arrival bodies: \
+                        synodic sweep FROM TO --system FILE"
+                .into())
+        }
+        _ => (DEMO_PAIR.0.to_string(), DEMO_PAIR.1.to_string()),
+    };
+    let steps: Result<Vec<f64>, _> = args
+        .step_days
+        .split(',')
+        .map(|p| p.trim().parse::<f64>())
+        .collect();
+    let steps = steps
+        .ok()
+        .filter(|v| (1..=2).contains(&v.len()))
+        .ok_or_else(|| {
+            format!(
+                "--step-days: expected D or D1,D2 in days, got {:?}",
+                args.step_days
+            )
+        })?;
+    let tof_days = match &args.tof_days {
+        Some(t) => {
+            let (lo, hi) = parse_number_span(t).map_err(|e| format!("--tof-days: {e}"))?;
+            Some([lo, hi])
+        }
+        None => None,
+    };
+    let mut outputs = Outputs::default();
+    for item in &args.skip {
+        match item.as_str() {
+            "grid" => outputs.grid = false,
+            "windows" => outputs.windows = false,
+            "chart" => outputs.chart = false,
+            other => {
+                return Err(format!(
+                    "--skip: unknown output {other:?}; choose from grid, chart, windows"
+                )
+                .into())
+            }
+        }
+    }
+    Ok(Study {
+        title: None,
+        system: args
+            .system
+            .as_ref()
+            .map_or_else(|| "demo".to_string(), |p| p.display().to_string()),
+        out: None,
+        pairs: vec![Pair { from, to }],
+        sweep: Some(SweepSection {
+            depart: args.depart.clone(),
+            arrive: args.arrive.clone(),
+            tof_days,
+            step_days: Some(steps),
+            revs: args.revs,
+            max_memory_gib: Some(args.max_memory_gib),
+        }),
+        windows: None,
+        orbits: Orbits {
+            park_alt_km: args.park_alt_km,
+            capture_alt_km: args.capture_alt_km,
+            capture_ecc: args.capture_alt_km.map(|_| args.capture_ecc),
+        },
+        limits: Limits::default(),
+        outputs,
+    })
+}
+
+/// Sweep one grid and write its files into `out_dir`.
+#[allow(clippy::too_many_arguments)]
+pub fn run_grid(
+    system: &System,
+    spec: &SweepSpec,
+    memory_limit_bytes: u128,
+    study: &Study,
+    provenance: &Provenance,
+    out_dir: &Path,
+    flags: RunFlags,
+) -> CliResult<PartResult> {
     let layers = spec.layers().len();
     // About 0.3 us per cell and layer per core: show a bar past ~0.5 s.
-    let cores = plan
+    let cores = flags
         .threads
         .unwrap_or_else(rayon::current_num_threads)
         .max(1);
     let est_s = spec.cells() as f64 * layers as f64 * 3e-7 / cores as f64;
-    let bar = if args.quiet || est_s < 0.5 {
+    let bar = if flags.quiet || est_s < 0.5 {
         ProgressBar::hidden()
     } else {
         let b = ProgressBar::with_draw_target(
@@ -263,58 +237,63 @@ pub fn run(args: &SweepArgs) -> CliResult<Outcome> {
     };
     let started = Instant::now();
     let grid = sweep(
-        &plan.system,
+        system,
         spec,
         RunOptions {
-            threads: plan.threads,
-            memory_limit_bytes: Some(plan.memory_limit_bytes),
+            threads: flags.threads,
+            memory_limit_bytes: Some(memory_limit_bytes),
         },
         || bar.inc(1),
     )?;
     bar.finish_and_clear();
     let elapsed = started.elapsed().as_secs_f64();
 
-    let summary = summarise(&plan, &grid);
-    ensure_dir(&plan.out)?;
-    let mut written = Vec::new();
-    if plan.write_grid {
-        let path = plan.out.join("grid.csv");
-        write_atomic(&path, &grid_csv(&grid, &spec.ends))?;
-        written.push(path);
-    }
-    if plan.write_windows {
-        let path = plan.out.join("windows.csv");
-        let records = refined_windows(&plan, &grid);
-        write_atomic(&path, &windows_csv(&records)?)?;
-        written.push(path);
-    }
-    let path = plan.out.join("summary.json");
-    let mut json = serde_json::to_string_pretty(&summary)?;
-    json.push('\n');
-    write_atomic(&path, json.as_bytes())?;
-    written.push(path);
-
-    if args.json {
-        print(&json)?;
-    } else {
-        print(&screen(&summary, elapsed, &written))?;
-    }
-    if summary.grid.ok == 0 {
-        return Ok(Outcome::NothingFeasible);
-    }
-    Ok(Outcome::Done)
-}
-
-/// The grid's own optima, refined on the Lambert objective inside the
-/// grid's spans (minimum C3 per layer and Type).
-fn refined_windows(plan: &Plan, grid: &Grid) -> Vec<WindowRecord> {
-    let spec = &plan.spec;
     let leg = Leg {
-        system: &plan.system,
+        system,
         from: spec.from,
         to: spec.to,
         ends: spec.ends,
     };
+    let optima = if study.outputs.windows || study.outputs.chart {
+        refined_optima(&leg, spec, &grid)
+    } else {
+        Vec::new()
+    };
+    let summary = summarise(system, spec, provenance, &grid);
+    let mut written = Vec::new();
+    if study.outputs.grid {
+        let path = out_dir.join("grid.csv");
+        write_atomic(&path, &grid_csv(&grid, &spec.ends))?;
+        written.push(path);
+    }
+    if study.outputs.windows {
+        let path = out_dir.join("windows.csv");
+        let records: Vec<WindowRecord> = optima
+            .iter()
+            .map(|o| {
+                let label: String = file_date(o.depart_days).chars().take(4).collect();
+                WindowRecord::new(&label, o, Objective::C3, false, None, None)
+            })
+            .collect();
+        write_atomic(&path, &windows_csv(&records)?)?;
+        written.push(path);
+    }
+    let path = out_dir.join("summary.json");
+    let mut json = serde_json::to_string_pretty(&summary)?;
+    json.push('\n');
+    write_atomic(&path, json.as_bytes())?;
+    written.push(path);
+    Ok(PartResult {
+        written,
+        screen: screen(&summary, elapsed),
+        json: json.trim_end().to_string(),
+        feasible: summary.grid.ok > 0,
+    })
+}
+
+/// The grid's own optima, refined on the Lambert objective inside the
+/// grid's spans (minimum C3 per layer and Type).
+fn refined_optima(leg: &Leg<'_>, spec: &SweepSpec, grid: &Grid) -> Vec<Optimum> {
     let second = (spec.second.start_days, spec.second.end_days());
     let bounds = Bounds {
         depart: (spec.depart.start_days, spec.depart.end_days()),
@@ -325,13 +304,7 @@ fn refined_windows(plan: &Plan, grid: &Grid) -> Vec<WindowRecord> {
         depart_lo: true,
         depart_hi: true,
     };
-    optima_of_grid(&leg, grid, Objective::C3, &bounds, borders)
-        .iter()
-        .map(|o| {
-            let label: String = file_date(o.depart_days).chars().take(4).collect();
-            WindowRecord::new(&label, o, Objective::C3, false, None, None)
-        })
-        .collect()
+    optima_of_grid(leg, grid, Objective::C3, &bounds, borders)
 }
 
 fn axis_out(axis: &Axis, kind: SecondAxis, is_depart: bool) -> AxisOut {
@@ -358,8 +331,7 @@ fn axis_out(axis: &Axis, kind: SecondAxis, is_depart: bool) -> AxisOut {
     }
 }
 
-fn summarise(plan: &Plan, grid: &Grid) -> Summary {
-    let spec = &plan.spec;
+fn summarise(system: &System, spec: &SweepSpec, provenance: &Provenance, grid: &Grid) -> Summary {
     let ends = &spec.ends;
     let counts = grid.status_counts();
     let count = |s: CellStatus| counts.iter().find(|c| c.0 == s).map_or(0, |c| c.1);
@@ -389,26 +361,22 @@ fn summarise(plan: &Plan, grid: &Grid) -> Summary {
         }
     }
     Summary {
-        tool: format!("synodic {}", env!("CARGO_PKG_VERSION")),
+        tool: provenance.tool.clone(),
         caution: CAUTION,
-        system: SystemOut {
-            name: plan.system.name.clone(),
-            source: plan.system.source.clone(),
-            sha256: plan.system_sha256.clone(),
-            central_mu_km3_s2: plan.system.central.mu_km3_s2,
-        },
-        from: plan.system.bodies[spec.from].name.clone(),
-        to: plan.system.bodies[spec.to].name.clone(),
+        provenance: provenance.clone(),
+        central_mu_km3_s2: system.central.mu_km3_s2,
+        from: system.bodies[spec.from].name.clone(),
+        to: system.bodies[spec.to].name.clone(),
         depart_axis: axis_out(&spec.depart, spec.second_kind, true),
         second_axis: axis_out(&spec.second, spec.second_kind, false),
         options: OptionsOut {
             revs: spec.max_revs,
             park_alt_km: ends
                 .parking
-                .map(|p| p.radius_km - plan.system.bodies[spec.from].radius_km.unwrap_or(0.0)),
+                .map(|p| p.radius_km - system.bodies[spec.from].radius_km.unwrap_or(0.0)),
             capture_alt_km: ends
                 .capture
-                .map(|c| c.periapsis_km - plan.system.bodies[spec.to].radius_km.unwrap_or(0.0)),
+                .map(|c| c.periapsis_km - system.bodies[spec.to].radius_km.unwrap_or(0.0)),
             capture_ecc: ends.capture.map(|c| c.ecc),
         },
         grid: GridOut {
@@ -424,12 +392,12 @@ fn summarise(plan: &Plan, grid: &Grid) -> Summary {
     }
 }
 
-fn screen(s: &Summary, elapsed_s: f64, written: &[PathBuf]) -> String {
+fn screen(s: &Summary, elapsed_s: f64) -> String {
     let mut o = String::new();
     let _ = writeln!(
         o,
         "{} -> {}   ({}, {})",
-        s.from, s.to, s.system.name, s.system.source
+        s.from, s.to, s.provenance.system_name, s.provenance.system_file
     );
     for a in [&s.depart_axis, &s.second_axis] {
         let _ = writeln!(
@@ -482,11 +450,6 @@ fn screen(s: &Summary, elapsed_s: f64, written: &[PathBuf]) -> String {
             m.dv_total_km_s
         );
     }
-    let _ = writeln!(o, "  (C3 km^2/s^2; speeds and delta-v km/s; dates TDB)");
-    let _ = writeln!(o);
-    for p in written {
-        let _ = writeln!(o, "wrote {}", p.display());
-    }
-    let _ = writeln!(o, "\n{}", s.caution);
+    let _ = writeln!(o, "  (C3 km^2/s^2; speeds and delta-v km/s; dates TDB)\n");
     o
 }

@@ -4,7 +4,11 @@ use std::fmt::Write as _;
 use std::path::{Path, PathBuf};
 
 use serde::Serialize;
-use synodic::export::{launch_period_csv, windows_csv, write_atomic, WindowRecord};
+use synodic::ephemeris::System;
+use synodic::export::{file_date, launch_period_csv, windows_csv, write_atomic, WindowRecord};
+use synodic::study::{
+    relative_path, Limits as StudyLimits, Orbits, Outputs, Pair, Study, WindowsSection,
+};
 use synodic::sweep::Objective;
 use synodic::time::parse_span;
 use synodic::transfer::Leg;
@@ -12,8 +16,9 @@ use synodic::windows::launch::{fixed_arrival_period, launch_period, FixedArrival
 use synodic::windows::{scan, Bounds, OpportunityWindow, ScanOptions};
 
 use super::print;
+use super::study::{endpoints, save_study, Origin, PartResult, Provenance, RunFlags};
 use crate::cli::args::WindowsArgs;
-use crate::cli::input::{body_pair, load_system, parse_number_span, resolve_endpoints};
+use crate::cli::input::{body_pair, load_system, parse_number_span};
 use crate::cli::{CliResult, Outcome};
 
 /// Caution printed under every table.
@@ -82,98 +87,255 @@ struct DailyOut {
     vinf_arrive_km_s: Option<f64>,
 }
 
-pub fn run(args: &WindowsArgs) -> CliResult<Outcome> {
-    let system = load_system(args.system.as_deref())?;
-    let (from, to) = body_pair(&system, &args.from, &args.to)?;
-    let objective = Objective::from_name(&args.objective).ok_or_else(|| {
+/// A validated window scan.
+pub struct ScanPlan {
+    span: (f64, f64),
+    options: ScanOptions,
+    limits: Limits,
+    launch_days: Option<u32>,
+}
+
+/// Validate a study's window section for one pair.
+pub fn scan_plan(
+    w: &WindowsSection,
+    study: &Study,
+    system: &System,
+    from: usize,
+    to: usize,
+    origin: &Origin,
+) -> CliResult<ScanPlan> {
+    let at = |key: &str, flag: &str| origin.at("windows", 0, key, flag);
+    let objective = Objective::from_name(&w.objective).ok_or_else(|| {
         format!(
-            "--objective: unknown {:?}; choose from c3, vinf-arrive, dv-total, c3+vinf",
-            args.objective
+            "{}: unknown objective {:?}; choose from c3, vinf-arrive, dv-total, c3+vinf",
+            at("objective", "--objective"),
+            w.objective
         )
     })?;
-    let (s0, s1) = parse_span(&args.span).map_err(|e| format!("--span: {e}"))?;
-    let tof = match &args.tof_days {
-        Some(t) => {
-            let (lo, hi) = parse_number_span(t).map_err(|e| format!("--tof-days: {e}"))?;
-            if lo <= 0.0 {
-                return Err(
-                    format!("--tof-days: times of flight must be > 0 days, got {lo}").into(),
-                );
-            }
-            Some((lo, hi))
+    let (s0, s1) = parse_span(&w.span).map_err(|e| format!("{}: {e}", at("span", "--span")))?;
+    if let Some([lo, hi]) = w.tof_days {
+        if !(lo.is_finite() && hi.is_finite() && lo > 0.0 && hi >= lo) {
+            return Err(format!(
+                "{}: times of flight must satisfy 0 < MIN <= MAX, got {lo}..{hi}",
+                at("tof_days", "--tof-days")
+            )
+            .into());
         }
-        None => None,
+    }
+    let limits = Limits {
+        max_c3: study.limits.max_c3_km2_s2,
+        max_vinf_arrive: study.limits.max_vinf_arrive_km_s,
     };
-    for (name, v) in [
-        ("--max-c3", args.max_c3),
-        ("--max-vinf-arrive", args.max_vinf_arrive),
+    for (key, flag, v) in [
+        ("max_c3_km2_s2", "--max-c3", limits.max_c3),
+        (
+            "max_vinf_arrive_km_s",
+            "--max-vinf-arrive",
+            limits.max_vinf_arrive,
+        ),
     ] {
         if let Some(x) = v {
             if !(x.is_finite() && x >= 0.0) {
-                return Err(format!("{name} must be a number >= 0, got {x}").into());
+                return Err(format!(
+                    "{}: must be a number >= 0, got {x}",
+                    origin.at("limits", 0, key, flag)
+                )
+                .into());
             }
         }
     }
-    if args.launch_period_days == Some(0) {
-        return Err("--launch-period-days must be at least 1".into());
+    if w.launch_period_days == Some(0) {
+        return Err(format!(
+            "{}: must be at least 1",
+            at("launch_period_days", "--launch-period-days")
+        )
+        .into());
     }
-    let ends = resolve_endpoints(
-        &system.bodies[from],
-        &system.bodies[to],
-        args.park_alt_km,
-        args.capture_alt_km,
-        args.capture_ecc,
-    )?;
+    if w.launch_period_days.is_some() && limits.max_c3.is_none() {
+        return Err(format!(
+            "{}: a launch period needs a C3 ceiling (limits.max_c3_km2_s2, --max-c3)",
+            at("launch_period_days", "--launch-period-days")
+        )
+        .into());
+    }
+    // Validate the orbits now, before any work.
+    endpoints(study, system, from, to)?;
+    Ok(ScanPlan {
+        span: (s0.days_since_j2000_tdb(), s1.days_since_j2000_tdb()),
+        options: ScanOptions {
+            objective,
+            tof_days: w.tof_days.map(|[a, b]| (a, b)),
+            max_revs: w.revs,
+            steps: 150,
+            threads: None,
+        },
+        limits,
+        launch_days: w.launch_period_days,
+    })
+}
+
+/// Scan, tabulate and print; the rows with their daily tables.
+fn scan_rows(
+    system: &System,
+    from: usize,
+    to: usize,
+    plan: &ScanPlan,
+    study: &Study,
+    threads: Option<usize>,
+) -> CliResult<Vec<(WindowRecord, Option<FixedArrivalPeriod>)>> {
     let leg = Leg {
-        system: &system,
+        system,
         from,
         to,
-        ends,
+        ends: endpoints(study, system, from, to)?,
     };
-    let windows = scan(
+    let mut options = plan.options;
+    options.threads = threads;
+    let windows = scan(&leg, plan.span.0, plan.span.1, &options)?;
+    Ok(tabulate(
         &leg,
-        s0.days_since_j2000_tdb(),
-        s1.days_since_j2000_tdb(),
-        &ScanOptions {
-            objective,
-            tof_days: tof,
-            max_revs: args.revs,
-            steps: 150,
-            threads: args.threads,
-        },
-    )?;
-    let limits = Limits {
-        max_c3: args.max_c3,
-        max_vinf_arrive: args.max_vinf_arrive,
+        &windows,
+        options.objective,
+        plan.limits,
+        plan.launch_days,
+    ))
+}
+
+fn title(system: &System, from: usize, to: usize, plan: &ScanPlan) -> String {
+    format!(
+        "{} -> {}   ({}), departures {} .. {}, objective {}",
+        system.bodies[from].name,
+        system.bodies[to].name,
+        system.name,
+        file_date(plan.span.0),
+        file_date(plan.span.1),
+        plan.options.objective.name()
+    )
+}
+
+fn json_rows(rows: &[(WindowRecord, Option<FixedArrivalPeriod>)]) -> CliResult<String> {
+    let json: Vec<JsonRow> = rows
+        .iter()
+        .map(|(record, fixed)| JsonRow {
+            record,
+            launch_period_daily: fixed.as_ref().map(daily_out),
+        })
+        .collect();
+    Ok(serde_json::to_string_pretty(&json)?)
+}
+
+/// A study's window scan: `span-windows.csv`, `span-windows.json` and the
+/// launch-period tables into `out_dir`.
+#[allow(clippy::too_many_arguments)]
+pub fn run_scan(
+    system: &System,
+    from: usize,
+    to: usize,
+    plan: &ScanPlan,
+    study: &Study,
+    provenance: &Provenance,
+    out_dir: &Path,
+    flags: RunFlags,
+) -> CliResult<PartResult> {
+    let rows = scan_rows(system, from, to, plan, study, flags.threads)?;
+    let records: Vec<WindowRecord> = rows.iter().map(|r| r.0.clone()).collect();
+    let mut written = Vec::new();
+    if study.outputs.windows {
+        let csv_path = out_dir.join("span-windows.csv");
+        write_atomic(&csv_path, &windows_csv(&records)?)?;
+        written.push(csv_path);
+        written.extend(write_daily_tables(
+            &out_dir.join("span-windows.csv"),
+            &rows,
+        )?);
+    }
+    let json = format!(
+        "{{\n\"provenance\": {},\n\"windows\": {}\n}}",
+        serde_json::to_string_pretty(provenance)?,
+        json_rows(&rows)?
+    );
+    let json_path = out_dir.join("span-windows.json");
+    write_atomic(&json_path, format!("{json}\n").as_bytes())?;
+    written.push(json_path);
+    let feasible = rows.iter().any(|(r, _)| !r.flags.contains("over-limit"));
+    Ok(PartResult {
+        written,
+        screen: table(&title(system, from, to, plan), &rows, plan.limits.max_c3),
+        json,
+        feasible,
+    })
+}
+
+pub fn run(args: &WindowsArgs) -> CliResult<Outcome> {
+    let tof_days = match &args.tof_days {
+        Some(t) => {
+            let (lo, hi) = parse_number_span(t).map_err(|e| format!("--tof-days: {e}"))?;
+            Some([lo, hi])
+        }
+        None => None,
     };
-    let rows = tabulate(&leg, &windows, objective, limits, args.launch_period_days);
+    let study = Study {
+        title: None,
+        system: args
+            .system
+            .as_ref()
+            .map_or_else(|| "demo".to_string(), |p| p.display().to_string()),
+        out: None,
+        pairs: vec![Pair {
+            from: args.from.clone(),
+            to: args.to.clone(),
+        }],
+        sweep: None,
+        windows: Some(WindowsSection {
+            span: args.span.clone(),
+            objective: args.objective.clone(),
+            tof_days,
+            revs: args.revs,
+            launch_period_days: args.launch_period_days,
+        }),
+        orbits: Orbits {
+            park_alt_km: args.park_alt_km,
+            capture_alt_km: args.capture_alt_km,
+            capture_ecc: args.capture_alt_km.map(|_| args.capture_ecc),
+        },
+        limits: StudyLimits {
+            max_c3_km2_s2: args.max_c3,
+            max_vinf_arrive_km_s: args.max_vinf_arrive,
+        },
+        outputs: Outputs::default(),
+    };
+    if let Some(path) = &args.save_study {
+        let mut saved = study.clone();
+        if let Some(sys) = &args.system {
+            let dir = path
+                .parent()
+                .filter(|p| !p.as_os_str().is_empty())
+                .unwrap_or(Path::new("."));
+            saved.system = relative_path(dir, sys).display().to_string();
+        }
+        save_study(&saved, path)?;
+    }
+    let system = load_system(args.system.as_deref())?;
+    let (from, to) = body_pair(&system, &args.from, &args.to)?;
+    let w = study
+        .windows
+        .as_ref()
+        .ok_or("internal: no window section")?;
+    let plan = scan_plan(w, &study, &system, from, to, &Origin::Cli)?;
+    let rows = scan_rows(&system, from, to, &plan, &study, args.threads)?;
     if let Some(out) = &args.out {
         let records: Vec<WindowRecord> = rows.iter().map(|r| r.0.clone()).collect();
         write_atomic(out, &windows_csv(&records)?)?;
         write_daily_tables(out, &rows)?;
     }
     if args.json {
-        let json: Vec<JsonRow> = rows
-            .iter()
-            .map(|(record, fixed)| JsonRow {
-                record,
-                launch_period_daily: fixed.as_ref().map(daily_out),
-            })
-            .collect();
-        let mut text = serde_json::to_string_pretty(&json)?;
-        text.push('\n');
-        print(&text)?;
+        print(&format!("{}\n", json_rows(&rows)?))?;
     } else {
-        let title = format!(
-            "{} -> {}   ({}), departures {} .. {}, objective {}",
-            system.bodies[from].name,
-            system.bodies[to].name,
-            system.name,
-            s0.date_tdb(),
-            s1.date_tdb(),
-            objective.name()
-        );
-        print(&table(&title, &rows, args.max_c3))?;
+        print(&table(
+            &title(&system, from, to, &plan),
+            &rows,
+            plan.limits.max_c3,
+        ))?;
     }
     let feasible = rows.iter().any(|(r, _)| !r.flags.contains("over-limit"));
     if !feasible {
