@@ -5,5 +5,6 @@
 
 mod bad_input;
 mod commands;
+mod fuzz;
 mod sweep;
 mod util;

@@ -1,0 +1,1 @@
+//! Parser fuzzing (filled in by the robustness work).
