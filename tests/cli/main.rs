@@ -6,5 +6,6 @@
 mod bad_input;
 mod commands;
 mod fuzz;
+mod study;
 mod sweep;
 mod util;
