@@ -212,11 +212,16 @@ pub fn refine(
         value: m.value,
         grid_value: c.value,
         figures,
-        // A refinement that slid onto the ridge is a ridge optimum too.
-        ridge: c.ridge || (figures.transfer_angle_deg - 180.0).abs() < RIDGE_BAND_DEG,
+        // Judged where the refinement ended: a ridge-adjacent cell whose
+        // optimum lies clear of the ridge is an interior optimum, and an
+        // interior cell whose optimum slid onto the ridge is not.
+        ridge: (figures.transfer_angle_deg - 180.0).abs() < RIDGE_BAND_DEG,
         edge: bounds.near_edge(m.x[0], m.x[1], 0.5 * step),
     })
 }
+
+/// Refined optima closer than this in both dates (days) are one optimum.
+const SAME_OPTIMUM_DAYS: f64 = 0.05;
 
 /// Optima whose transfer angle lies within this many degrees of 180 are
 /// flagged `ridge`: there the transfer plane is ill-conditioned.
@@ -258,13 +263,22 @@ pub fn optima_of_grid(
                     && (c.i != 0 || borders.depart_lo)
                     && (c.i != last_i || borders.depart_hi)
             });
-            let refined: Vec<Optimum> = group
+            let mut refined: Vec<Optimum> = Vec::new();
+            let starts = group
                 .clone()
                 .filter(|c| !c.ridge)
                 .take(PER_GROUP)
-                .chain(group.clone().filter(|c| c.ridge).take(PER_GROUP))
-                .filter_map(|c| refine(leg, grid, c, objective, bounds))
-                .collect();
+                .chain(group.clone().filter(|c| c.ridge).take(PER_GROUP));
+            for o in starts.filter_map(|c| refine(leg, grid, c, objective, bounds)) {
+                // Several cells often refine to the same optimum.
+                let same = |r: &Optimum| {
+                    (r.depart_days - o.depart_days).abs() < SAME_OPTIMUM_DAYS
+                        && (r.arrive_days - o.arrive_days).abs() < SAME_OPTIMUM_DAYS
+                };
+                if !refined.iter().any(same) {
+                    refined.push(o);
+                }
+            }
             let best = |keep: &dyn Fn(&Optimum) -> bool| {
                 refined
                     .iter()
@@ -443,7 +457,12 @@ pub fn scan(
             .min_by(|a, b| a.value.total_cmp(&b.value))
             .map_or(centres[k], |o| o.depart_days);
         windows.push(OpportunityWindow {
-            label: year_of(label_day),
+            // Opportunities more than once a year are told apart by date.
+            label: if synodic >= 365.25 {
+                year_of(label_day)
+            } else {
+                file_date_of(label_day)
+            },
             centre_days: centres[k],
             depart: (d_lo, d_hi),
             tof,
@@ -517,6 +536,11 @@ fn window_optima(
 fn near_tof_edge(o: &Optimum, tof: (f64, f64), step: f64) -> bool {
     let t = o.arrive_days - o.depart_days;
     t - tof.0 < 0.5 * step || tof.1 - t < 0.5 * step
+}
+
+/// The TDB calendar date of a day count, as text.
+fn file_date_of(days: f64) -> String {
+    Epoch::from_days_since_j2000_tdb(days).date_tdb()
 }
 
 /// The TDB calendar year of a date, as text.

@@ -36,6 +36,7 @@ pub struct Limits {
 /// Records (and fixed-arrival daily tables) for a list of opportunities.
 pub fn tabulate(
     leg: &Leg<'_>,
+    span: (f64, f64),
     windows: &[OpportunityWindow],
     objective: Objective,
     limits: Limits,
@@ -43,8 +44,10 @@ pub fn tabulate(
 ) -> Vec<(WindowRecord, Option<FixedArrivalPeriod>)> {
     let mut out = Vec::new();
     for w in windows {
+        // Launch periods may run past the window's seams but not past the
+        // span searched.
         let bounds = Bounds {
-            depart: w.depart,
+            depart: span,
             arrive: None,
             tof: Some(w.tof),
         };
@@ -194,6 +197,7 @@ fn scan_rows(
     let windows = scan(&leg, plan.span.0, plan.span.1, &options)?;
     Ok(tabulate(
         &leg,
+        plan.span,
         &windows,
         options.objective,
         plan.limits,
