@@ -42,6 +42,9 @@ const MAX_SIDE_PX: u32 = 10_000;
 /// DejaVu Sans (Bitstream Vera licence; see fonts/LICENSE-DejaVu.txt).
 static FONT_TTF: &[u8] = include_bytes!("fonts/DejaVuSans.ttf");
 const FAMILY: &str = "sans-serif";
+/// Font sizes in this file are nominal; plotters' size is this much larger
+/// for text that reads at design-review distance.
+const FONT_SCALE: f64 = 1.18;
 
 /// Caption printed under every chart.
 const CAPTION: &str = "patched-conic, mean-element ephemerides; preliminary design figures";
@@ -203,7 +206,7 @@ pub(crate) fn layout(width_px: u32, height_px: u32) -> Layout {
         plot: Rect {
             x0: 175.0 * k,
             y0: 128.0 * k,
-            x1: w - 380.0 * k,
+            x1: w - 410.0 * k,
             y1: h - 150.0 * k,
         },
     }
@@ -308,7 +311,7 @@ impl<DB: DrawingBackend> Pen<'_, DB> {
     fn font(&self, size_px: f64) -> FontDesc<'static> {
         FontDesc::new(
             FontFamily::Name(FAMILY),
-            size_px * self.k * self.s,
+            size_px * FONT_SCALE * self.k * self.s,
             FontStyle::Normal,
         )
     }
@@ -635,6 +638,33 @@ fn number_ticks(lo: f64, hi: f64, max_ticks: usize) -> Vec<f64> {
     out
 }
 
+/// A field whose 0.5 isoline outlines the masked samples: every masked
+/// sample is above 0.5 and every unmasked one below, while a 3 x 3 box
+/// average sets how far above or below, so that staircase edges of the
+/// mask come out as straight diagonals instead of steps.
+fn mask_field(masked: &[bool], nx: usize, ny: usize) -> Vec<f64> {
+    let mut out = vec![0.0; nx * ny];
+    for iy in 0..ny {
+        for ix in 0..nx {
+            let mut sum = 0.0;
+            let mut n = 0.0;
+            for jy in iy.saturating_sub(1)..=(iy + 1).min(ny - 1) {
+                for jx in ix.saturating_sub(1)..=(ix + 1).min(nx - 1) {
+                    sum += if masked[jy * nx + jx] { 1.0 } else { 0.0 };
+                    n += 1.0;
+                }
+            }
+            let avg: f64 = sum / n;
+            out[iy * nx + ix] = if masked[iy * nx + ix] {
+                avg.max(0.55)
+            } else {
+                avg.min(0.45)
+            };
+        }
+    }
+    out
+}
+
 /// Everything that decides what is drawn, shared by both formats.
 struct Plan<'s, 'g> {
     spec: &'s ChartSpec<'g>,
@@ -659,6 +689,14 @@ fn plan<'s, 'g>(spec: &'s ChartSpec<'g>, lay: &Layout) -> Result<Plan<'s, 'g>, C
         Some(v) => explicit_levels(v),
         None => vinf_levels(fields.vinf.iter().copied()),
     };
+    // A C3 level equal to the shaded limit is drawn once, as the limit.
+    let c3_lv: Vec<f64> = match spec.max_c3 {
+        Some(max) => c3_lv
+            .into_iter()
+            .filter(|l| (l - max).abs() > 1e-9 * (1.0 + max.abs()))
+            .collect(),
+        None => c3_lv,
+    };
     let c3 = isolines(&fields.c3, &lat, &c3_lv)?;
     let vinf = isolines(&fields.vinf, &lat, &vinf_lv)?;
     let ridge = isolines(&fields.ridge, &lat, &[0.0])?;
@@ -675,11 +713,7 @@ fn plan<'s, 'g>(spec: &'s ChartSpec<'g>, lay: &Layout) -> Result<Plan<'s, 'g>, C
         }
         _ => (Vec::new(), Vec::new()),
     };
-    let mask_field: Vec<f64> = fields
-        .masked
-        .iter()
-        .map(|&m| if m { 1.0 } else { 0.0 })
-        .collect();
+    let mask_field = mask_field(&fields.masked, lat.nx, lat.ny);
     let mask = if fields.masked.iter().any(|&m| m) {
         regions(&mask_field, &lat, 0.5)?
     } else {
@@ -1175,7 +1209,7 @@ fn draw_legend<DB: DrawingBackend>(
     let x0 = lay.plot.x1 + 34.0 * k;
     let x1 = lay.w - 26.0 * k;
     let row = 40.0 * k;
-    let sample_w = 50.0 * k;
+    let sample_w = 46.0 * k;
     enum Sample {
         Line(Line),
         Patch(RGBColor, Option<Line>),
@@ -1493,7 +1527,7 @@ mod tests {
                 },
                 label: "C3 5.00 · 2031-07-20 → 2032-04-05".to_string(),
             }],
-            max_c3: Some(20.0),
+            max_c3: Some(25.0),
         }
     }
 
@@ -1578,7 +1612,7 @@ mod tests {
         // Each C3 and v-infinity level is one ring or arc on this grid.
         assert_eq!(count(&lines, "c3"), 3);
         assert_eq!(count(&lines, "vinf"), 2);
-        // The C3 limit line (C3 = 20) and the 180-degree line, cut in two
+        // The C3 limit line (C3 = 25) and the 180-degree line, cut in two
         // by the blank block.
         assert_eq!(count(&lines, "c3max"), 1);
         assert_eq!(count(&lines, "ridge"), 2);
@@ -1596,7 +1630,8 @@ mod tests {
         assert!(t.contains(&CAPTION.to_string()));
         assert!(t.contains(&"Departure date (TDB)".to_string()));
         assert!(t.contains(&"Arrival date (TDB)".to_string()));
-        assert!(t.contains(&"C3 ≤ 20 km²/s²".to_string()));
+        assert!(t.contains(&"C3 ≤ 25 km²/s²".to_string()));
+        assert!(t.iter().any(|x| x == "25"), "limit line labelled");
         // Date ticks on both axes.
         for d in ["2031-01-01", "2031-07-01", "2032-01-01"] {
             assert!(t.iter().any(|x| x == d), "tick {d} missing");
@@ -1670,6 +1705,22 @@ mod tests {
             }
         }
         assert!(near_block > 0, "lines reach the block's edge");
+    }
+
+    #[test]
+    fn a_c3_level_at_the_limit_is_drawn_once() {
+        let g = analytic_grid(SecondAxis::Arrival);
+        let mut s = spec(&g);
+        s.max_c3 = Some(20.0);
+        let lines = polylines(&render_svg(&s).expect("svg"));
+        assert_eq!(count(&lines, "c3"), 2);
+        assert_eq!(count(&lines, "c3max"), 1);
+        s.max_c3 = None;
+        let svg = render_svg(&s).expect("svg");
+        let lines = polylines(&svg);
+        assert_eq!(count(&lines, "c3"), 3);
+        assert_eq!(count(&lines, "c3max"), 0);
+        assert!(!texts(&svg).iter().any(|t| t.starts_with("C3 ≤")));
     }
 
     #[test]
