@@ -1222,10 +1222,12 @@ fn draw_legend<DB: DrawingBackend>(
     if spec.grid.second_kind == SecondAxis::Arrival {
         rows.push((Sample::Line(Line::Tof), "Time of flight, days".to_string()));
     }
-    rows.push((
-        Sample::Line(Line::Ridge),
-        "Type I / II boundary (180°)".to_string(),
-    ));
+    if plan.ridge.iter().any(|l| !l.pieces.is_empty()) {
+        rows.push((
+            Sample::Line(Line::Ridge),
+            "Type I / II boundary (180°)".to_string(),
+        ));
+    }
     if let Some(max) = spec.max_c3.filter(|m| m.is_finite()) {
         rows.push((
             Sample::Patch(SHADE_RGB, Some(Line::Limit)),
@@ -1898,5 +1900,8 @@ mod tests {
         eprintln!("png {:?}", t0.elapsed());
         std::fs::write("/tmp/chart-example.png", png_bytes).expect("write");
         std::fs::write("/tmp/chart-example.svg", render_svg(&s).expect("svg")).expect("write");
+        let g = analytic_grid(SecondAxis::TimeOfFlight);
+        let png_bytes = render_png(&spec(&g), 1200, 900).expect("png");
+        std::fs::write("/tmp/chart-example-tof.png", png_bytes).expect("write");
     }
 }
