@@ -14,6 +14,7 @@
 //!
 //! | module | what it holds | method |
 //! |---|---|---|
+//! | [`chart`] | contour charts of a sweep grid, SVG and PNG | marching squares (contour crate), plotters |
 //! | [`time`] | epochs in TDB, parsing and printing | hifitime |
 //! | [`opportunity`] | bracketing opportunities by Hohmann phasing | Kepler's third law |
 //! | [`orbit`] | two-body states, universal-variable propagation, elements from a state | Bate, Mueller & White (1971) ch. 4-5 |
@@ -38,6 +39,7 @@
 // Floats are compared with tolerances, never with `==`.
 #![deny(clippy::float_cmp)]
 
+pub mod chart;
 pub mod ephemeris;
 pub mod error;
 pub mod export;
