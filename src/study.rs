@@ -37,6 +37,9 @@
 //! max_c3_km2_s2 = 14.0
 //! max_vinf_arrive_km_s = 4.0
 //!
+//! [chart]                               # contour levels (automatic if omitted)
+//! c3_levels = [8.0, 10.0, 12.0, 15.0, 20.0]
+//!
 //! [outputs]                             # all true by default
 //! grid = true
 //! chart = true
@@ -75,9 +78,30 @@ pub struct Study {
     /// Launch-vehicle and arrival limits.
     #[serde(default, skip_serializing_if = "Limits::is_empty")]
     pub limits: Limits,
+    /// Chart options.
+    #[serde(default, skip_serializing_if = "ChartSection::is_empty")]
+    pub chart: ChartSection,
     /// Which files to write.
     #[serde(default)]
     pub outputs: Outputs,
+}
+
+/// Chart options of a study.
+#[derive(Debug, Clone, Default, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct ChartSection {
+    /// C3 contour levels, km^2/s^2 (automatic when omitted).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub c3_levels: Option<Vec<f64>>,
+    /// Arrival v-infinity contour levels, km/s (automatic when omitted).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub vinf_levels: Option<Vec<f64>>,
+}
+
+impl ChartSection {
+    fn is_empty(&self) -> bool {
+        *self == ChartSection::default()
+    }
 }
 
 /// One departure/arrival pair.

@@ -66,6 +66,31 @@ pub enum Command {
     ///
     /// Example: synodic run examples/cargo-runs/study.toml
     Run(RunArgs),
+    /// Redraw the chart of a sweep's output folder from its grid.csv and
+    /// summary.json, without recomputing.
+    ///
+    /// Example: synodic chart synodic-out --c3-levels 13,14,16,20 --out c.png
+    Chart(ChartArgs),
+}
+
+/// Arguments of `synodic chart`.
+#[derive(Debug, clap::Args)]
+pub struct ChartArgs {
+    /// A folder written by `synodic sweep` or `synodic run`.
+    pub dir: PathBuf,
+    /// Chart file to write: .svg or .png (default DIR/chart.svg and
+    /// DIR/chart.png).
+    #[arg(long, value_name = "FILE")]
+    pub out: Option<PathBuf>,
+    /// C3 contour levels, km^2/s^2.
+    #[arg(long, value_name = "LIST", value_delimiter = ',')]
+    pub c3_levels: Option<Vec<f64>>,
+    /// Arrival v-infinity contour levels, km/s.
+    #[arg(long, value_name = "LIST", value_delimiter = ',')]
+    pub vinf_levels: Option<Vec<f64>>,
+    /// Shade the region with C3 at or below this ceiling (km^2/s^2).
+    #[arg(long, value_name = "C3")]
+    pub max_c3: Option<f64>,
 }
 
 /// Arguments of `synodic run`.
@@ -213,6 +238,15 @@ pub struct SweepArgs {
     /// Also save this run as a study file, to repeat it with `synodic run`.
     #[arg(long, value_name = "FILE")]
     pub save_study: Option<PathBuf>,
+    /// C3 contour levels for the chart, km^2/s^2 (automatic when omitted).
+    #[arg(long, value_name = "LIST", value_delimiter = ',')]
+    pub c3_levels: Option<Vec<f64>>,
+    /// Arrival v-infinity contour levels for the chart, km/s.
+    #[arg(long, value_name = "LIST", value_delimiter = ',')]
+    pub vinf_levels: Option<Vec<f64>>,
+    /// Shade the region with C3 at or below this ceiling (km^2/s^2).
+    #[arg(long, value_name = "C3")]
+    pub max_c3: Option<f64>,
 }
 
 /// Arguments of `synodic lambert`.

@@ -9,7 +9,7 @@
 mod grid_csv;
 mod windows_csv;
 
-pub use grid_csv::{file_date, grid_csv, GRID_COLUMNS};
+pub use grid_csv::{file_date, grid_csv, read_grid_csv, GRID_COLUMNS};
 pub use windows_csv::{launch_period_csv, table_date, windows_csv, WindowRecord, WINDOW_COLUMNS};
 
 use std::io::Write;
@@ -27,6 +27,16 @@ pub enum ExportError {
         /// The underlying error.
         #[source]
         source: std::io::Error,
+    },
+    /// A file read back (e.g. `grid.csv`) is malformed.
+    #[error("{}:{line}: {message}", path.display())]
+    Parse {
+        /// The file.
+        path: PathBuf,
+        /// 1-based line.
+        line: usize,
+        /// What is wrong.
+        message: String,
     },
     /// Formatting the content failed (CSV or JSON encoder).
     #[error("cannot encode {}: {message}", path.display())]

@@ -191,13 +191,9 @@ pub struct Grid {
 }
 
 impl Grid {
-    /// An empty (all "no solution") grid for the given axes and layers.
-    pub(crate) fn new(
-        depart: Axis,
-        second: Axis,
-        second_kind: SecondAxis,
-        layers: Vec<Layer>,
-    ) -> Grid {
+    /// An empty (all "no solution") grid for the given axes and layers, to
+    /// be filled by a sweep or read back from a file.
+    pub fn new(depart: Axis, second: Axis, second_kind: SecondAxis, layers: Vec<Layer>) -> Grid {
         let n = depart.count * second.count * layers.len();
         Grid {
             depart,

@@ -77,7 +77,14 @@ fn skip_grid_leaves_it_out() {
     d.run(&["sweep", "--skip", "grid", "--quiet"]).ok();
     assert_eq!(
         d.files("synodic-out"),
-        ["run-info.json", "study.toml", "summary.json", "windows.csv"]
+        [
+            "chart.png",
+            "chart.svg",
+            "run-info.json",
+            "study.toml",
+            "summary.json",
+            "windows.csv"
+        ]
     );
 }
 
@@ -100,4 +107,81 @@ fn oversized_grid_is_refused_before_allocating() {
     let r = r.bad_input(&["MiB", "larger step"]);
     assert!(r.stdout.is_empty());
     assert!(d.files("").is_empty(), "{:?}", d.files(""));
+}
+
+/// The chart holds labelled C3 and v-infinity contours for the levels
+/// asked, the optimum markers and dated axes; the PNG decodes at review
+/// size. `synodic chart` redraws it from the saved files alone.
+#[test]
+fn charts_are_written_and_redrawn_from_saved_files() {
+    let d = Dir::new("chart");
+    d.run(&[
+        "sweep",
+        "--quiet",
+        "--c3-levels",
+        "13,14,16,20",
+        "--vinf-levels",
+        "2.5,3,4",
+        "--max-c3",
+        "14",
+    ])
+    .ok();
+    let svg = std::fs::read_to_string(d.join("synodic-out/chart.svg")).expect("svg");
+    assert!(svg.trim_start().starts_with("<svg"));
+    assert!(
+        svg.matches("class=\"vinf\"").count() >= 3,
+        "v-infinity paths"
+    );
+    assert!(svg.matches("class=\"c3\"").count() >= 3, "C3 paths");
+    let labels = texts(&svg);
+    for label in [
+        "13",
+        "16",
+        "20",
+        "2.5",
+        "4",
+        "Teodra → Kesh",
+        "Type I",
+        "2032-08-01",
+    ] {
+        assert!(
+            labels.iter().any(|t| t == label),
+            "missing {label} in {labels:?}"
+        );
+    }
+    assert!(
+        labels.iter().any(|t| t.starts_with("Type I C3 12.8")),
+        "optimum marker label in {labels:?}"
+    );
+    let png = std::fs::read(d.join("synodic-out/chart.png")).expect("png");
+    assert_eq!(&png[1..4], b"PNG");
+    let w = u32::from_be_bytes([png[16], png[17], png[18], png[19]]);
+    let h = u32::from_be_bytes([png[20], png[21], png[22], png[23]]);
+    assert!(w >= 1600 && h >= 1200, "{w}x{h}");
+    std::fs::remove_file(d.join("synodic-out/chart.svg")).expect("rm");
+    let r = d
+        .run(&[
+            "chart",
+            "synodic-out",
+            "--c3-levels",
+            "13,14,16,20",
+            "--out",
+            "synodic-out/again.svg",
+        ])
+        .ok();
+    assert!(r.stdout.contains("again.svg"));
+    let again = std::fs::read_to_string(d.join("synodic-out/again.svg")).expect("redrawn");
+    assert!(again.matches("class=\"c3\"").count() >= 3);
+    assert!(
+        texts(&again).iter().any(|t| t.starts_with("Type I C3")),
+        "markers come back from windows.csv"
+    );
+}
+
+/// The text content of every `<text>` element of an SVG.
+fn texts(svg: &str) -> Vec<String> {
+    svg.split("</text>")
+        .filter_map(|chunk| chunk.rsplit_once("<text").map(|(_, t)| t))
+        .filter_map(|t| t.split_once('>').map(|(_, body)| body.trim().to_string()))
+        .collect()
 }

@@ -3,6 +3,7 @@
 use super::{Args, CliResult, Command, Outcome};
 
 mod bodies;
+mod chart;
 mod lambert;
 mod run;
 mod study;
@@ -19,6 +20,7 @@ pub fn run(args: Args) -> CliResult<Outcome> {
         Command::Sweep(a) => sweep::run(&a),
         Command::Windows(a) => windows::run(&a),
         Command::Run(a) => run::run(&a),
+        Command::Chart(a) => chart::run(&a),
     }
 }
 

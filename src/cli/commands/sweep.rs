@@ -6,9 +6,14 @@ use std::time::Instant;
 
 use indicatif::{ProgressBar, ProgressDrawTarget, ProgressStyle};
 use serde::Serialize;
+use synodic::chart::{
+    render_png, render_svg, ChartSpec, Marker, DEFAULT_HEIGHT_PX, DEFAULT_WIDTH_PX,
+};
 use synodic::ephemeris::System;
 use synodic::export::{ensure_dir, file_date, grid_csv, windows_csv, write_atomic, WindowRecord};
-use synodic::study::{relative_path, Limits, Orbits, Outputs, Pair, Study, SweepSection};
+use synodic::study::{
+    relative_path, ChartSection, Limits, Orbits, Outputs, Pair, Study, SweepSection,
+};
 use synodic::sweep::{
     grid_minima, sweep, Axis, CellStatus, Grid, Objective, RunOptions, SecondAxis, SweepSpec,
 };
@@ -198,7 +203,14 @@ fn study_from_args(args: &SweepArgs) -> CliResult<Study> {
             capture_alt_km: args.capture_alt_km,
             capture_ecc: args.capture_alt_km.map(|_| args.capture_ecc),
         },
-        limits: Limits::default(),
+        limits: Limits {
+            max_c3_km2_s2: args.max_c3,
+            max_vinf_arrive_km_s: None,
+        },
+        chart: ChartSection {
+            c3_levels: args.c3_levels.clone(),
+            vinf_levels: args.vinf_levels.clone(),
+        },
         outputs,
     })
 }
@@ -278,6 +290,9 @@ pub fn run_grid(
         write_atomic(&path, &windows_csv(&records)?)?;
         written.push(path);
     }
+    if study.outputs.chart {
+        written.extend(write_charts(system, spec, study, &grid, &optima, out_dir)?);
+    }
     let path = out_dir.join("summary.json");
     let mut json = serde_json::to_string_pretty(&summary)?;
     json.push('\n');
@@ -289,6 +304,72 @@ pub fn run_grid(
         json: json.trim_end().to_string(),
         feasible: summary.grid.ok > 0,
     })
+}
+
+/// Markers for the chart: the refined zero-revolution optima.
+pub fn markers(optima: &[Optimum], kind: SecondAxis) -> Vec<Marker> {
+    optima
+        .iter()
+        .filter(|o| o.layer.revs == 0)
+        .map(|o| Marker {
+            depart_days: o.depart_days,
+            second: match kind {
+                SecondAxis::Arrival => o.arrive_days,
+                SecondAxis::TimeOfFlight => o.arrive_days - o.depart_days,
+            },
+            label: format!(
+                "Type {}{} C3 {:.2} · {} → {}",
+                o.kind,
+                if o.ridge { " (ridge)" } else { "" },
+                o.figures.c3_km2_s2,
+                &file_date(o.depart_days)[..10],
+                &file_date(o.arrive_days)[..10]
+            ),
+        })
+        .collect()
+}
+
+/// Title and subtitle of a grid's chart.
+pub fn chart_titles(system: &System, from: usize, to: usize, grid: &Grid) -> (String, String) {
+    (
+        format!("{} → {}", system.bodies[from].name, system.bodies[to].name),
+        format!(
+            "{} · departures {} to {}",
+            system.name,
+            &file_date(grid.depart.start_days)[..10],
+            &file_date(grid.depart.end_days())[..10]
+        ),
+    )
+}
+
+/// `chart.svg` and `chart.png` of a grid.
+fn write_charts(
+    system: &System,
+    spec: &SweepSpec,
+    study: &Study,
+    grid: &Grid,
+    optima: &[Optimum],
+    out_dir: &Path,
+) -> CliResult<Vec<PathBuf>> {
+    let (title, subtitle) = chart_titles(system, spec.from, spec.to, grid);
+    let chart = ChartSpec {
+        grid,
+        layer: 0,
+        title,
+        subtitle,
+        c3_levels: study.chart.c3_levels.clone(),
+        vinf_levels: study.chart.vinf_levels.clone(),
+        markers: markers(optima, spec.second_kind),
+        max_c3: study.limits.max_c3_km2_s2,
+    };
+    let svg = out_dir.join("chart.svg");
+    write_atomic(&svg, render_svg(&chart)?.as_bytes())?;
+    let png = out_dir.join("chart.png");
+    write_atomic(
+        &png,
+        &render_png(&chart, DEFAULT_WIDTH_PX, DEFAULT_HEIGHT_PX)?,
+    )?;
+    Ok(vec![svg, png])
 }
 
 /// The grid's own optima, refined on the Lambert objective inside the

@@ -306,6 +306,7 @@ pub fn run(args: &WindowsArgs) -> CliResult<Outcome> {
             max_c3_km2_s2: args.max_c3,
             max_vinf_arrive_km_s: args.max_vinf_arrive,
         },
+        chart: Default::default(),
         outputs: Outputs::default(),
     };
     if let Some(path) = &args.save_study {
