@@ -450,11 +450,16 @@ pub fn scan(
         if optima.is_empty() {
             continue;
         }
-        let label_day = optima
-            .iter()
-            .filter(|o| !o.ridge)
-            .chain(optima.iter())
-            .min_by(|a, b| a.value.total_cmp(&b.value))
+        // Label by the best zero-revolution interior optimum, else by the
+        // best of any kind.
+        let best_of = |keep: &dyn Fn(&&Optimum) -> bool| {
+            optima
+                .iter()
+                .filter(keep)
+                .min_by(|a, b| a.value.total_cmp(&b.value))
+        };
+        let label_day = best_of(&|o| o.layer.revs == 0 && !o.ridge && !o.edge)
+            .or_else(|| best_of(&|_| true))
             .map_or(centres[k], |o| o.depart_days);
         windows.push(OpportunityWindow {
             // Opportunities more than once a year are told apart by date.

@@ -65,8 +65,13 @@ pub fn tabulate(
                 (Some(n), Some(_)) => fixed_arrival_period(leg, opt, &bounds, n),
                 _ => None,
             };
+            let mut opt = *opt;
+            // A launch period cut by the span's ends is an edge result too.
+            if lp.is_some_and(|l| l.first_days <= span.0 || l.last_days >= span.1) {
+                opt.edge = true;
+            }
             let rec =
-                WindowRecord::new(&w.label, opt, objective, over, lp.as_ref(), fixed.as_ref());
+                WindowRecord::new(&w.label, &opt, objective, over, lp.as_ref(), fixed.as_ref());
             out.push((rec, fixed));
         }
     }
