@@ -5,6 +5,7 @@
 
 mod bad_input;
 mod commands;
+mod examples;
 mod fuzz;
 mod study;
 mod sweep;
