@@ -26,8 +26,10 @@
 
 pub mod isolines;
 pub mod levels;
+mod overview;
 mod render;
 
+pub use overview::{overview_png, overview_svg, OverviewPoint, OverviewSpec};
 pub use render::{render_png, render_svg, DEFAULT_HEIGHT_PX, DEFAULT_WIDTH_PX};
 
 use crate::sweep::{layers_for, Axis, CellStatus, Grid, SecondAxis};

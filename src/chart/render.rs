@@ -47,20 +47,21 @@ const FAMILY: &str = "sans-serif";
 const FONT_SCALE: f64 = 1.18;
 
 /// Caption printed under every chart.
-const CAPTION: &str = "patched-conic, mean-element ephemerides; preliminary design figures";
+pub(crate) const CAPTION: &str =
+    "patched-conic, mean-element ephemerides; preliminary design figures";
 
 // Palette: blue and orange stay apart under the common colour-vision
 // deficiencies; the other line kinds differ by dash pattern as well as hue.
-const INK: RGBColor = RGBColor(0x22, 0x22, 0x2a);
-const MUTED: RGBColor = RGBColor(0x5c, 0x5f, 0x66);
-const C3_RGB: RGBColor = RGBColor(0x1d, 0x3f, 0x8f);
-const VINF_RGB: RGBColor = RGBColor(0xc2, 0x5a, 0x00);
+pub(crate) const INK: RGBColor = RGBColor(0x22, 0x22, 0x2a);
+pub(crate) const MUTED: RGBColor = RGBColor(0x5c, 0x5f, 0x66);
+pub(crate) const C3_RGB: RGBColor = RGBColor(0x1d, 0x3f, 0x8f);
+pub(crate) const VINF_RGB: RGBColor = RGBColor(0xc2, 0x5a, 0x00);
 const TOF_RGB: RGBColor = RGBColor(0x8c, 0x8c, 0x8c);
 const RIDGE_RGB: RGBColor = RGBColor(0x6a, 0x2c, 0x91);
-const LIMIT_RGB: RGBColor = RGBColor(0x1f, 0x7a, 0x5c);
+pub(crate) const LIMIT_RGB: RGBColor = RGBColor(0x1f, 0x7a, 0x5c);
 const SHADE_RGB: RGBColor = RGBColor(0xd9, 0xf0, 0xe3);
 const MASK_RGB: RGBColor = RGBColor(0xe3, 0xe3, 0xe3);
-const GRIDLINE_RGB: RGBColor = RGBColor(0xea, 0xea, 0xea);
+pub(crate) const GRIDLINE_RGB: RGBColor = RGBColor(0xea, 0xea, 0xea);
 const FRAME_RGB: RGBColor = RGBColor(0x44, 0x44, 0x44);
 const MARKER_RGB: RGBColor = RGBColor(0xff, 0xc8, 0x2e);
 const PAPER: RGBColor = RGBColor(0xff, 0xff, 0xff);
@@ -223,7 +224,7 @@ struct Pen<'a, DB: DrawingBackend> {
     native_dash: bool,
 }
 
-fn draw_err<E: std::fmt::Display>(e: E) -> ChartError {
+pub(crate) fn draw_err<E: std::fmt::Display>(e: E) -> ChartError {
     ChartError::Draw(e.to_string())
 }
 
@@ -1308,7 +1309,7 @@ fn draw_legend<DB: DrawingBackend>(
     Ok(())
 }
 
-fn check_size(width_px: u32, height_px: u32) -> Result<(), ChartError> {
+pub(crate) fn check_size(width_px: u32, height_px: u32) -> Result<(), ChartError> {
     let ok = |s: u32| (MIN_SIDE_PX..=MAX_SIDE_PX).contains(&s);
     if ok(width_px) && ok(height_px) {
         Ok(())
@@ -1320,7 +1321,7 @@ fn check_size(width_px: u32, height_px: u32) -> Result<(), ChartError> {
     }
 }
 
-fn ensure_font() -> Result<(), ChartError> {
+pub(crate) fn ensure_font() -> Result<(), ChartError> {
     static REGISTERED: OnceLock<bool> = OnceLock::new();
     let ok = *REGISTERED.get_or_init(|| {
         plotters::style::register_font(FAMILY, FontStyle::Normal, FONT_TTF).is_ok()
@@ -1431,7 +1432,7 @@ pub fn render_png(spec: &ChartSpec, width_px: u32, height_px: u32) -> Result<Vec
 }
 
 /// 2x2 box filter: RGB of `2w x 2h` to `w x h`.
-fn downsample_2x(big: &[u8], w: usize, h: usize) -> Vec<u8> {
+pub(crate) fn downsample_2x(big: &[u8], w: usize, h: usize) -> Vec<u8> {
     let bw = 2 * w;
     let mut out = vec![0u8; w * h * 3];
     for y in 0..h {

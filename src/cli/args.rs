@@ -162,6 +162,10 @@ pub struct WindowsArgs {
     /// Write the table as CSV here (launch-period tables go beside it).
     #[arg(long, value_name = "FILE.csv")]
     pub out: Option<PathBuf>,
+    /// Also draw the overview chart (best C3 and arrival v-infinity per
+    /// opportunity and Type) to this .svg or .png file.
+    #[arg(long, value_name = "FILE")]
+    pub overview: Option<PathBuf>,
     /// Print JSON instead of a table.
     #[arg(long)]
     pub json: bool,

@@ -4,6 +4,7 @@ use std::fmt::Write as _;
 use std::path::{Path, PathBuf};
 
 use serde::Serialize;
+use synodic::chart::{overview_png, overview_svg, OverviewPoint, OverviewSpec};
 use synodic::ephemeris::System;
 use synodic::export::{file_date, launch_period_csv, windows_csv, write_atomic, WindowRecord};
 use synodic::study::{
@@ -11,7 +12,8 @@ use synodic::study::{
 };
 use synodic::sweep::Objective;
 use synodic::time::parse_span;
-use synodic::transfer::Leg;
+use synodic::time::J2000_JD;
+use synodic::transfer::{Leg, TransferType};
 use synodic::windows::launch::{fixed_arrival_period, launch_period, FixedArrivalPeriod};
 use synodic::windows::{scan, Bounds, OpportunityWindow, ScanOptions};
 
@@ -222,6 +224,47 @@ fn title(system: &System, from: usize, to: usize, plan: &ScanPlan) -> String {
     )
 }
 
+/// The overview chart of a scan: zero-revolution optima per opportunity.
+fn overview(
+    system: &System,
+    from: usize,
+    to: usize,
+    plan: &ScanPlan,
+    rows: &[(WindowRecord, Option<FixedArrivalPeriod>)],
+) -> OverviewSpec {
+    let points = rows
+        .iter()
+        .map(|r| &r.0)
+        .filter(|r| r.revs == 0)
+        .map(|r| OverviewPoint {
+            depart_days: r.depart_jd_tdb - J2000_JD,
+            kind: if r.kind == "I" {
+                TransferType::I
+            } else {
+                TransferType::II
+            },
+            c3_km2_s2: r.c3_km2_s2,
+            vinf_arrive_km_s: r.vinf_arrive_km_s,
+            flagged: !r.flags.is_empty(),
+        })
+        .collect();
+    OverviewSpec {
+        title: format!(
+            "{} → {}, every opportunity",
+            system.bodies[from].name, system.bodies[to].name
+        ),
+        subtitle: format!(
+            "{} · departures {} to {} · best {} per opportunity and Type; hollow = flagged",
+            system.name,
+            &file_date(plan.span.0)[..10],
+            &file_date(plan.span.1)[..10],
+            plan.options.objective.name()
+        ),
+        points,
+        max_c3: plan.limits.max_c3,
+    }
+}
+
 fn json_rows(rows: &[(WindowRecord, Option<FixedArrivalPeriod>)]) -> CliResult<String> {
     let json: Vec<JsonRow> = rows
         .iter()
@@ -257,6 +300,15 @@ pub fn run_scan(
             &out_dir.join("span-windows.csv"),
             &rows,
         )?);
+    }
+    if study.outputs.chart && !rows.is_empty() {
+        let spec = overview(system, from, to, plan, &rows);
+        let svg = out_dir.join("span-windows.svg");
+        write_atomic(&svg, overview_svg(&spec)?.as_bytes())?;
+        let png = out_dir.join("span-windows.png");
+        write_atomic(&png, &overview_png(&spec, 1800, 1200)?)?;
+        written.push(svg);
+        written.push(png);
     }
     let json = format!(
         "{{\n\"provenance\": {},\n\"windows\": {}\n}}",
@@ -337,6 +389,18 @@ pub fn run(args: &WindowsArgs) -> CliResult<Outcome> {
         let records: Vec<WindowRecord> = rows.iter().map(|r| r.0.clone()).collect();
         write_atomic(out, &windows_csv(&records)?)?;
         write_daily_tables(out, &rows)?;
+    }
+    if let Some(path) = &args.overview {
+        let spec = overview(&system, from, to, &plan, &rows);
+        match path.extension().and_then(|e| e.to_str()) {
+            Some("svg") => write_atomic(path, overview_svg(&spec)?.as_bytes())?,
+            Some("png") => write_atomic(path, &overview_png(&spec, 1800, 1200)?)?,
+            _ => {
+                return Err(
+                    format!("--overview: {} must end in .svg or .png", path.display()).into(),
+                )
+            }
+        }
     }
     if args.json {
         print(&format!("{}\n", json_rows(&rows)?))?;
