@@ -432,7 +432,7 @@ fn study_grid_over_the_memory_limit() {
 #[test]
 fn command_line_malformed_range_creates_nothing() {
     let d = Dir::new("cli-range");
-    let cases: [(&[&str], &[&str]); 5] = [
+    let cases: [(&[&str], &[&str]); 7] = [
         (
             &["--depart", "2031-03-01..garbage"],
             &["--depart", "garbage"],
@@ -444,6 +444,11 @@ fn command_line_malformed_range_creates_nothing() {
         ),
         (&["--arrive", "2031-03-01"], &["--arrive", "START..END"]),
         (&["--tof-days", "a..300"], &["--tof-days", "\"a\""]),
+        (&["--tof-days", "0..300"], &["--tof-days", "0 < MIN"]),
+        (
+            &["--depart", "2031-03-01..2031-03-01"],
+            &["--depart", "ends before or at"],
+        ),
     ];
     for (extra, needles) in cases {
         let mut args = vec!["sweep", "Teodra", "Kesh", "--quiet"];

@@ -345,7 +345,7 @@ proptest! {
 const RUN_LIMIT: Duration = Duration::from_secs(10);
 
 proptest! {
-    #![proptest_config(Config { cases: 200, ..Config::default() })]
+    #![proptest_config(Config { cases: 300, ..Config::default() })]
 
     #[test]
     fn batch_reader_survives_mutated_csv(
