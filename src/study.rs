@@ -246,12 +246,15 @@ pub enum StudyError {
     },
     /// The file is not valid TOML for a study (syntax, missing or unknown
     /// key, wrong type).
-    #[error("{file}:{line}: {message}")]
+    #[error("{file}:{line}: {}{message}", key.as_ref().map(|k| format!("key `{k}`: ")).unwrap_or_default())]
     Syntax {
         /// File name as given.
         file: String,
         /// 1-based line (0 when the parser gave no position).
         line: usize,
+        /// The dotted key at fault (e.g. `sweep.revs`), when the text
+        /// tells it and the parser's message does not already name it.
+        key: Option<String>,
         /// What the parser said.
         message: String,
     },
@@ -276,10 +279,18 @@ impl Study {
     /// [`StudyError::Syntax`] with the line of the problem, and
     /// [`StudyError::Invalid`] for an empty pair list.
     pub fn from_toml_str(text: &str, source: &str) -> Result<Study, StudyError> {
-        let study: Study = toml::from_str(text).map_err(|e| StudyError::Syntax {
-            file: source.to_string(),
-            line: e.span().map_or(0, |s| line_of_offset(text, s.start)),
-            message: e.message().trim().to_string(),
+        let study: Study = toml::from_str(text).map_err(|e| {
+            let message = e.message().trim().to_string();
+            let key = e.span().and_then(|s| key_at(text, s.start)).filter(|k| {
+                let last = k.rsplit('.').next().unwrap_or(k);
+                !message.contains(&format!("`{last}`"))
+            });
+            StudyError::Syntax {
+                file: source.to_string(),
+                line: e.span().map_or(0, |s| line_of_offset(text, s.start)),
+                key,
+                message,
+            }
         })?;
         if study.pairs.is_empty() {
             return Err(StudyError::Invalid {
@@ -330,6 +341,37 @@ pub fn line_of_offset(text: &str, offset: usize) -> usize {
         .filter(|&&b| b == b'\n')
         .count()
         + 1
+}
+
+/// The dotted key whose value holds byte `offset`: the name left of the
+/// last `=` before `offset` on its line, prefixed with the nearest table
+/// header above (`sweep.revs`, `pair.from`). `None` on a line without `=`.
+fn key_at(text: &str, offset: usize) -> Option<String> {
+    let before = text.get(..offset.min(text.len()))?;
+    let line_start = before.rfind('\n').map_or(0, |i| i + 1);
+    let head = &before[line_start..];
+    let left = head[..head.rfind('=')?].trim_end();
+    let key: String = left
+        .chars()
+        .rev()
+        .take_while(|c| c.is_ascii_alphanumeric() || *c == '_' || *c == '-')
+        .collect::<Vec<_>>()
+        .into_iter()
+        .rev()
+        .collect();
+    if key.is_empty() {
+        return None;
+    }
+    let section = before[..line_start]
+        .lines()
+        .rev()
+        .map(str::trim)
+        .find(|l| l.starts_with('['))
+        .map(|l| l.trim_matches(|c| c == '[' || c == ']').trim().to_string());
+    Some(match section {
+        Some(s) if !s.is_empty() => format!("{s}.{key}"),
+        _ => key,
+    })
 }
 
 /// The 1-based line where `key` is set in table `section` (`""` for the
@@ -425,7 +467,19 @@ mod tests {
         let msg = Study::from_toml_str(&text, "s.toml")
             .expect_err("type")
             .to_string();
-        assert!(msg.starts_with("s.toml:10:"), "{msg}");
+        assert!(
+            msg.starts_with("s.toml:10: key `sweep.step_days`:"),
+            "{msg}"
+        );
+    }
+
+    #[test]
+    fn key_at_names_the_dotted_key() {
+        let at = |needle: &str| key_at(STUDY, STUDY.find(needle).expect("in text"));
+        assert_eq!(at("[2.0]").as_deref(), Some("sweep.step_days"));
+        assert_eq!(at("\"Kesh\"").as_deref(), Some("pair.to"));
+        assert_eq!(at("\"demo\"").as_deref(), Some("system"));
+        assert_eq!(at("[sweep]"), None);
     }
 
     #[test]

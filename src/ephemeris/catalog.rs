@@ -630,6 +630,24 @@ fn read_body(
             ))
         }
     };
+    // A value can be finite in its own unit yet overflow in km, or give an
+    // orbit too small for a finite speed: refuse both here, naming the key.
+    let (a_key, a_span) = match (&b.a_au, &b.a_km) {
+        (Some(au), _) => ("a_au", au.span()),
+        (None, Some(km)) => ("a_km", km.span()),
+        (None, None) => ("a_au", b.name.span()),
+    };
+    if !(a_km.is_finite()
+        && (central_mu_km3_s2 / a_km).is_finite()
+        && mean_motion_deg_per_century(a_km, central_mu_km3_s2).is_finite())
+    {
+        return Err(loc.invalid(
+            a_span,
+            ctx,
+            a_key,
+            format!("out of range: {a_km} km gives no finite orbit"),
+        ));
+    }
     let e = loc.finite(&b.e, ctx, "e")?;
     if !(0.0..1.0).contains(&e) {
         return Err(loc.invalid(b.e.span(), ctx, "e", format!("must be in [0, 1), got {e}")));
@@ -659,7 +677,18 @@ fn read_body(
                     "give a_au or a_km, not both".to_string(),
                 ))
             }
-            (Some(au), None) => loc.finite(au, &rctx, "a_au")? * AU_KM,
+            (Some(au), None) => {
+                let km = loc.finite(au, &rctx, "a_au")? * AU_KM;
+                if !km.is_finite() {
+                    return Err(loc.invalid(
+                        au.span(),
+                        &rctx,
+                        "a_au",
+                        format!("out of range: {km} km per century"),
+                    ));
+                }
+                km
+            }
             (None, Some(km)) => loc.finite(km, &rctx, "a_km")?,
             (None, None) => 0.0,
         };
@@ -674,6 +703,22 @@ fn read_body(
         if let Some(n) = loc.opt_finite(&r.mean_lon_deg, &rctx, "mean_lon_deg")? {
             rates.mean_lon_deg = n;
         }
+    }
+
+    // The checks above should make the state at the epoch finite; if some
+    // combination still does not, refuse the body rather than let NaN into
+    // a sweep.
+    if let Err(why) = elements.at(&rates, 0.0).state(central_mu_km3_s2) {
+        let (key, span) = match why {
+            StateError::Kepler(_) => ("e", b.e.span()),
+            _ => (a_key, a_span),
+        };
+        return Err(loc.invalid(
+            span,
+            ctx,
+            key,
+            format!("the elements give no state at the epoch: {why}"),
+        ));
     }
 
     let pole = match (&b.pole_lon_deg, &b.pole_lat_deg) {

@@ -1,8 +1,9 @@
 //! A fresh temp folder per test and a command for the built binary.
 
 use std::path::{Path, PathBuf};
-use std::process::{Command, Output};
+use std::process::{Command, Output, Stdio};
 use std::sync::atomic::{AtomicUsize, Ordering};
+use std::time::{Duration, Instant};
 
 static NEXT: AtomicUsize = AtomicUsize::new(0);
 
@@ -117,4 +118,88 @@ impl Run {
         }
         self
     }
+}
+
+impl Dir {
+    /// Run `synodic` with `args`, stdout discarded and stderr captured
+    /// through a file (so a chatty child never blocks on a full pipe), and
+    /// kill it if it has not finished after `limit`. Returns the run and
+    /// the time it took; a killed run has code -1.
+    pub fn run_bounded(&self, args: &[&str], limit: Duration) -> (Run, Duration) {
+        let err_path = self.join(".stderr-capture");
+        let err_file = std::fs::File::create(&err_path).expect("stderr file");
+        let start = Instant::now();
+        let mut child = Command::new(env!("CARGO_BIN_EXE_synodic"))
+            .args(args)
+            .current_dir(&self.path)
+            .stdin(Stdio::null())
+            .stdout(Stdio::null())
+            .stderr(err_file)
+            .spawn()
+            .expect("spawn synodic");
+        let status = loop {
+            if let Some(status) = child.try_wait().expect("wait") {
+                break Some(status);
+            }
+            if start.elapsed() > limit {
+                let _ = child.kill();
+                let _ = child.wait();
+                break None;
+            }
+            std::thread::sleep(Duration::from_millis(2));
+        };
+        let took = start.elapsed();
+        let stderr = std::fs::read_to_string(&err_path).unwrap_or_default();
+        let _ = std::fs::remove_file(&err_path);
+        let run = Run {
+            code: status.and_then(|s| s.code()).unwrap_or(-1),
+            stdout: String::new(),
+            stderr,
+        };
+        (run, took)
+    }
+}
+
+/// `text` with the first `from` replaced by `to`; panics if `from` is not
+/// there, so a test never silently checks an unmodified file.
+pub fn edit(text: &str, from: &str, to: &str) -> String {
+    assert!(text.contains(from), "{from:?} not in the text");
+    text.replacen(from, to, 1)
+}
+
+/// The 1-based line of the first occurrence of `needle` in `text`.
+pub fn line_of(text: &str, needle: &str) -> usize {
+    let at = text
+        .find(needle)
+        .unwrap_or_else(|| panic!("{needle:?} not in text"));
+    text[..at].matches('\n').count() + 1
+}
+
+/// Every file below `dir`, as paths relative to it, sorted.
+pub fn tree(dir: &Path) -> Vec<String> {
+    fn walk(root: &Path, dir: &Path, out: &mut Vec<String>) {
+        for e in std::fs::read_dir(dir).into_iter().flatten().flatten() {
+            let p = e.path();
+            if p.is_dir() {
+                walk(root, &p, out);
+            } else {
+                let rel = p.strip_prefix(root).unwrap_or(&p);
+                out.push(rel.to_string_lossy().into_owned());
+            }
+        }
+    }
+    let mut out = Vec::new();
+    walk(dir, dir, &mut out);
+    out.sort();
+    out
+}
+
+/// Assert no temporary (half-written) output file is left anywhere below
+/// `dir`: atomic writes go through `.NAME.tmp-PID` files.
+pub fn assert_no_temp_files(dir: &Path) {
+    let left: Vec<String> = tree(dir)
+        .into_iter()
+        .filter(|p| p.contains(".tmp-"))
+        .collect();
+    assert!(left.is_empty(), "temporary files left behind: {left:?}");
 }

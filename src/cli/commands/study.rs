@@ -363,11 +363,12 @@ pub fn execute(
                 let (spec, limit) = sweep_spec(s, system, from, to, &resolved, origin)?;
                 let need = spec.memory_estimate_bytes();
                 if need > limit {
-                    return Err(SweepError::TooLarge {
+                    let too_large = SweepError::TooLarge {
                         needed_mib: need.div_ceil(1 << 20),
                         limit_mib: limit >> 20,
-                    }
-                    .into());
+                    };
+                    let at = origin.at("sweep", 0, "max_memory_gib", "--max-memory-gib");
+                    return Err(format!("{at}: {too_large}").into());
                 }
                 Some((spec, limit))
             }
