@@ -51,6 +51,14 @@ fn bounds(v: impl Iterator<Item = f64>) -> Option<(f64, f64)> {
     })
 }
 
+/// A panel: axis label, colour, the value plotted, an optional limit line.
+type Panel = (
+    &'static str,
+    RGBColor,
+    Box<dyn Fn(&OverviewPoint) -> f64>,
+    Option<f64>,
+);
+
 fn draw<DB: DrawingBackend>(
     area: &DrawingArea<DB, Shift>,
     spec: &OverviewSpec,
@@ -85,12 +93,7 @@ fn draw<DB: DrawingBackend>(
     };
     let x_span = (x0.min(x1 - 180.0), x1.max(x0 + 180.0));
     let c3_max = spec.max_c3.unwrap_or(f64::NEG_INFINITY);
-    let panels_spec: [(
-        &str,
-        RGBColor,
-        Box<dyn Fn(&OverviewPoint) -> f64>,
-        Option<f64>,
-    ); 2] = [
+    let panels_spec: [Panel; 2] = [
         (
             "Departure C3, km²/s²",
             C3_RGB,
