@@ -211,6 +211,17 @@ pub struct Endpoints {
 }
 
 impl Endpoints {
+    /// No parking or capture orbit, asymptotes measured in the system
+    /// frame: departure delta-v is the excess speed itself.
+    pub fn bare() -> Endpoints {
+        Endpoints {
+            depart_frame: EquatorFrame::system(),
+            arrive_frame: EquatorFrame::system(),
+            parking: None,
+            capture: None,
+        }
+    }
+
     /// Endpoints for a departure from `from` and an arrival at `to`.
     ///
     /// A parking orbit needs the departure body's GM and radius; a capture

@@ -5,8 +5,8 @@ use plotters::coord::Shift;
 use plotters::prelude::*;
 
 use super::render::{
-    check_size, downsample_2x, draw_err, ensure_font, C3_RGB, CAPTION, GRIDLINE_RGB, INK,
-    LIMIT_RGB, MUTED, VINF_RGB,
+    check_size, downsample_2x, draw_err, encode_png, ensure_font, C3_RGB, CAPTION, GRIDLINE_RGB,
+    INK, LIMIT_RGB, MUTED, VINF_RGB,
 };
 use super::{date_label_tdb, ChartError};
 use crate::transfer::TransferType;
@@ -244,20 +244,11 @@ pub fn overview_png(
         draw(&area, spec, 2.0 * f64::from(width_px) / 1800.0)?;
         area.present().map_err(draw_err)?;
     }
-    let small = downsample_2x(&big, width_px as usize, height_px as usize);
-    let mut out = Vec::new();
-    {
-        let mut enc = png::Encoder::new(&mut out, width_px, height_px);
-        enc.set_color(png::ColorType::Rgb);
-        enc.set_depth(png::BitDepth::Eight);
-        let mut w = enc
-            .write_header()
-            .map_err(|e| ChartError::Png(e.to_string()))?;
-        w.write_image_data(&small)
-            .map_err(|e| ChartError::Png(e.to_string()))?;
-        w.finish().map_err(|e| ChartError::Png(e.to_string()))?;
-    }
-    Ok(out)
+    encode_png(
+        &downsample_2x(&big, width_px as usize, height_px as usize),
+        width_px,
+        height_px,
+    )
 }
 
 #[cfg(test)]

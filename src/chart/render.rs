@@ -1414,7 +1414,15 @@ pub fn render_png(spec: &ChartSpec, width_px: u32, height_px: u32) -> Result<Vec
         draw(&area, &plan, &lay, false)?;
         area.present().map_err(draw_err)?;
     }
-    let small = downsample_2x(&big, width_px as usize, height_px as usize);
+    encode_png(
+        &downsample_2x(&big, width_px as usize, height_px as usize),
+        width_px,
+        height_px,
+    )
+}
+
+/// Encode an 8-bit RGB buffer as PNG.
+pub(crate) fn encode_png(rgb: &[u8], width_px: u32, height_px: u32) -> Result<Vec<u8>, ChartError> {
     let mut out = Vec::new();
     {
         let mut enc = png::Encoder::new(&mut out, width_px, height_px);
@@ -1424,7 +1432,7 @@ pub fn render_png(spec: &ChartSpec, width_px: u32, height_px: u32) -> Result<Vec
         let mut w = enc
             .write_header()
             .map_err(|e| ChartError::Png(e.to_string()))?;
-        w.write_image_data(&small)
+        w.write_image_data(rgb)
             .map_err(|e| ChartError::Png(e.to_string()))?;
         w.finish().map_err(|e| ChartError::Png(e.to_string()))?;
     }

@@ -145,20 +145,9 @@ pub struct WindowsArgs {
     /// Length of a fixed-arrival-date launch period, in daily departures.
     #[arg(long, value_name = "N", requires = "max_c3")]
     pub launch_period_days: Option<u32>,
-    /// Altitude of the circular parking orbit at departure (km).
-    #[arg(long, value_name = "KM")]
-    pub park_alt_km: Option<f64>,
-    /// Periapsis altitude of the capture orbit (km).
-    #[arg(long, value_name = "KM")]
-    pub capture_alt_km: Option<f64>,
-    /// Eccentricity of the capture orbit.
-    #[arg(
-        long,
-        value_name = "E",
-        default_value_t = 0.0,
-        requires = "capture_alt_km"
-    )]
-    pub capture_ecc: f64,
+    /// Parking and capture orbits.
+    #[command(flatten)]
+    pub orbits: OrbitArgs,
     /// Write the table as CSV here (launch-period tables go beside it).
     #[arg(long, value_name = "FILE.csv")]
     pub out: Option<PathBuf>,
@@ -208,22 +197,9 @@ pub struct SweepArgs {
     /// on it.
     #[arg(long, value_name = "N")]
     pub threads: Option<usize>,
-    /// Altitude of the circular parking orbit at departure (km); 200 km
-    /// when omitted and the body has a GM and radius.
-    #[arg(long, value_name = "KM")]
-    pub park_alt_km: Option<f64>,
-    /// Periapsis altitude of the capture orbit (km); no capture burn when
-    /// omitted.
-    #[arg(long, value_name = "KM")]
-    pub capture_alt_km: Option<f64>,
-    /// Eccentricity of the capture orbit.
-    #[arg(
-        long,
-        value_name = "E",
-        default_value_t = 0.0,
-        requires = "capture_alt_km"
-    )]
-    pub capture_ecc: f64,
+    /// Parking and capture orbits.
+    #[command(flatten)]
+    pub orbits: OrbitArgs,
     /// Output folder.
     #[arg(long, value_name = "DIR", default_value = "synodic-out")]
     pub out: PathBuf,
@@ -312,6 +288,21 @@ pub struct TransferArgs {
     /// System file (TOML); the built-in demo system when omitted.
     #[arg(long, value_name = "FILE")]
     pub system: Option<PathBuf>,
+    /// Parking and capture orbits.
+    #[command(flatten)]
+    pub orbits: OrbitArgs,
+    /// Also consider arcs with up to this many complete revolutions.
+    #[arg(long, default_value_t = 0)]
+    pub revs: u32,
+    /// Print JSON instead of a table.
+    #[arg(long)]
+    pub json: bool,
+}
+
+/// Parking and capture orbits, shared by the commands that compute
+/// delta-v.
+#[derive(Debug, Clone, Copy, clap::Args)]
+pub struct OrbitArgs {
     /// Altitude of the circular parking orbit at departure (km); 200 km
     /// when omitted and the body has a GM and radius.
     #[arg(long, value_name = "KM")]
@@ -328,10 +319,4 @@ pub struct TransferArgs {
         requires = "capture_alt_km"
     )]
     pub capture_ecc: f64,
-    /// Also consider arcs with up to this many complete revolutions.
-    #[arg(long, default_value_t = 0)]
-    pub revs: u32,
-    /// Print JSON instead of a table.
-    #[arg(long)]
-    pub json: bool,
 }

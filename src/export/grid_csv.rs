@@ -198,19 +198,14 @@ mod tests {
     use super::*;
     use crate::ephemeris::System;
     use crate::sweep::{layers_for, sweep, RunOptions, SweepSpec};
-    use crate::transfer::{Endpoints, EquatorFrame};
+    use crate::transfer::Endpoints;
 
     /// Writing a grid and reading it back gives the same figures to the
     /// printed digits, and the same statuses.
     #[test]
     fn grid_round_trips_through_csv() {
         let system = System::demo();
-        let ends = Endpoints {
-            depart_frame: EquatorFrame::system(),
-            arrive_frame: EquatorFrame::system(),
-            parking: None,
-            capture: None,
-        };
+        let ends = Endpoints::bare();
         let start = 11_700.5;
         let spec = SweepSpec {
             from: 2,

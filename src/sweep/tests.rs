@@ -8,44 +8,13 @@ use crate::ephemeris::{System, AU_KM};
 use crate::orbit::propagate;
 use crate::time::Epoch;
 
-/// Two circular, coplanar orbits at 1 and 1.524 au around a body with the
-/// Sun's GM (IAU 2009: 1.32712440041e11 km^3/s^2). Invented bodies; the
-/// radii are those of Curtis (2010) Example 8.4.
-const TWO_CIRCLES: &str = r#"
-name = "two circles"
-epoch = "2030-01-01T00:00:00 TDB"
-[central]
-name = "Sun-like"
-mu_km3_s2 = 1.32712440041e11
-[[body]]
-name = "Inner"
-a_au = 1.0
-e = 0.0
-i_deg = 0.0
-node_deg = 0.0
-peri_deg = 0.0
-mean_lon_deg = 0.0
-[[body]]
-name = "Outer"
-a_au = 1.524
-e = 0.0
-i_deg = 0.0
-node_deg = 0.0
-peri_deg = 0.0
-mean_lon_deg = 40.0
-"#;
+/// Two circular, coplanar orbits at 1 and 1.524 au (the radii of Curtis
+/// 2010, Example 8.4) around a body with the Sun's GM (IAU 2009). Invented
+/// bodies; shared with the other modules' tests.
+const TWO_CIRCLES: &str = include_str!("../../tests/fixtures/two-circles.toml");
 
 fn two_circles() -> System {
     System::from_toml_str(TWO_CIRCLES, "two-circles.toml").expect("test system parses")
-}
-
-fn bare_ends() -> Endpoints {
-    Endpoints {
-        depart_frame: crate::transfer::EquatorFrame::system(),
-        arrive_frame: crate::transfer::EquatorFrame::system(),
-        parking: None,
-        capture: None,
-    }
 }
 
 fn run(system: &System, spec: &SweepSpec, threads: Option<usize>) -> Grid {
@@ -62,7 +31,7 @@ fn run(system: &System, spec: &SweepSpec, threads: Option<usize>) -> Grid {
 }
 
 fn min_c3(grid: &Grid) -> (f64, usize, usize) {
-    let m = grid_minima(grid, &bare_ends(), Objective::C3)
+    let m = grid_minima(grid, &Endpoints::bare(), Objective::C3)
         .into_iter()
         .min_by(|a, b| a.value.total_cmp(&b.value))
         .expect("some cell solved");
@@ -95,7 +64,7 @@ fn grid_minimum_converges_to_hohmann() {
         second: Axis::spanning(150.0, 400.0, 4.0).expect("axis"),
         second_kind: SecondAxis::TimeOfFlight,
         max_revs: 0,
-        ends: bare_ends(),
+        ends: Endpoints::bare(),
     };
     let grid = run(&system, &spec, None);
     let (mut best, mut i, mut j) = min_c3(&grid);
@@ -143,7 +112,7 @@ fn one_thread_and_two_give_identical_grids() {
         second: Axis::spanning(start + 100.0, start + 500.0, 5.0).expect("axis"),
         second_kind: SecondAxis::Arrival,
         max_revs: 1,
-        ends: bare_ends(),
+        ends: Endpoints::bare(),
     };
     let a = run(&system, &spec, Some(1));
     let b = run(&system, &spec, Some(2));
@@ -247,7 +216,7 @@ fn oversized_grids_are_refused() {
         second: Axis::spanning(1.0, 1000.0, 0.01).expect("axis"),
         second_kind: SecondAxis::TimeOfFlight,
         max_revs: 0,
-        ends: bare_ends(),
+        ends: Endpoints::bare(),
     };
     let err = sweep(
         &system,

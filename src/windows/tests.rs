@@ -4,45 +4,15 @@
 use crate::ephemeris::{System, AU_KM};
 use crate::sweep::{self, Axis, Objective, RunOptions, SecondAxis, SweepSpec};
 use crate::time::Epoch;
-use crate::transfer::{Endpoints, EquatorFrame, Leg};
+use crate::transfer::{Endpoints, Leg};
 
 use super::launch::{fixed_arrival_period, launch_period, min_c3_over_arrival};
 use super::*;
 
-/// Two circular coplanar orbits at 1 and 1.524 au (Curtis 2010, Example
-/// 8.4 radii) around a body with the Sun's GM (IAU 2009). Invented bodies.
-const TWO_CIRCLES: &str = r#"
-name = "two circles"
-epoch = "2030-01-01T00:00:00 TDB"
-[central]
-name = "Sun-like"
-mu_km3_s2 = 1.32712440041e11
-[[body]]
-name = "Inner"
-a_au = 1.0
-e = 0.0
-i_deg = 0.0
-node_deg = 0.0
-peri_deg = 0.0
-mean_lon_deg = 0.0
-[[body]]
-name = "Outer"
-a_au = 1.524
-e = 0.0
-i_deg = 0.0
-node_deg = 0.0
-peri_deg = 0.0
-mean_lon_deg = 40.0
-"#;
-
-fn bare() -> Endpoints {
-    Endpoints {
-        depart_frame: EquatorFrame::system(),
-        arrive_frame: EquatorFrame::system(),
-        parking: None,
-        capture: None,
-    }
-}
+/// Two circular, coplanar orbits at 1 and 1.524 au (the radii of Curtis
+/// 2010, Example 8.4) around a body with the Sun's GM (IAU 2009). Invented
+/// bodies; shared with the other modules' tests.
+const TWO_CIRCLES: &str = include_str!("../../tests/fixtures/two-circles.toml");
 
 fn opts() -> ScanOptions {
     ScanOptions {
@@ -67,7 +37,7 @@ fn refined_minimum_is_hohmann_and_recurs_synodically() {
         system: &system,
         from: 0,
         to: 1,
-        ends: bare(),
+        ends: Endpoints::bare(),
     };
     let mu = system.central.mu_km3_s2;
     let (r1, r2) = (AU_KM, 1.524 * AU_KM);
@@ -125,7 +95,7 @@ fn refined_optimum_matches_fine_brute_force() {
         system: &system,
         from,
         to,
-        ends: bare(),
+        ends: Endpoints::bare(),
     };
     let start = Epoch::parse("2031-01-01")
         .expect("date")
@@ -144,7 +114,7 @@ fn refined_optimum_matches_fine_brute_force() {
         second: Axis::spanning(opt.arrive_days - 2.0, opt.arrive_days + 2.0, 0.05).expect("axis"),
         second_kind: SecondAxis::Arrival,
         max_revs: 0,
-        ends: bare(),
+        ends: Endpoints::bare(),
     };
     let grid = sweep::sweep(&system, &spec, RunOptions::default(), || {}).expect("sweep");
     let fine = sweep::grid_minima(&grid, &leg.ends, Objective::C3)
@@ -185,7 +155,7 @@ fn earth_mars_minimum_c3_2026_to_2035_in_handbook_band() {
         system: &system,
         from: earth,
         to: mars,
-        ends: bare(),
+        ends: Endpoints::bare(),
     };
     let s0 = Epoch::parse("2026-01-01")
         .expect("date")
@@ -226,7 +196,7 @@ fn launch_period_ends_sit_on_the_ceiling() {
         system: &system,
         from,
         to,
-        ends: bare(),
+        ends: Endpoints::bare(),
     };
     let start = Epoch::parse("2031-01-01")
         .expect("date")

@@ -396,6 +396,7 @@ pub fn execute(
         let mut written = Vec::new();
         let mut screen = String::new();
         let mut json = Vec::new();
+        let mut parts = Vec::new();
         if let Some((spec, limit)) = &sweep_plan {
             let r = sweep::run_grid(
                 system,
@@ -406,12 +407,7 @@ pub fn execute(
                 &out_dir,
                 flags,
             )?;
-            if r.feasible {
-                outcome = Outcome::Done;
-            }
-            written.extend(r.written);
-            screen.push_str(&r.screen);
-            json.push(r.json);
+            parts.push(r);
         }
         if let Some(plan) = &scan_plan {
             let r = windows::run_scan(
@@ -424,6 +420,9 @@ pub fn execute(
                 &out_dir,
                 flags,
             )?;
+            parts.push(r);
+        }
+        for r in parts {
             if r.feasible {
                 outcome = Outcome::Done;
             }
@@ -495,8 +494,20 @@ pub struct PartResult {
     pub feasible: bool,
 }
 
-/// Save `study` to `path` (for `--save-study`).
-pub fn save_study(study: &Study, path: &Path) -> CliResult<()> {
-    write_atomic(path, study.to_toml().as_bytes())?;
+/// Save a command line's `study` to `path` (for `--save-study`), with the
+/// `--system` file, if any, made relative to the saved file's folder.
+pub fn save_study(study: &Study, system: Option<&Path>, path: &Path) -> CliResult<()> {
+    let mut saved = study.clone();
+    if let Some(sys) = system {
+        saved.system = relative_path(folder_of(path), sys).display().to_string();
+    }
+    write_atomic(path, saved.to_toml().as_bytes())?;
     Ok(())
+}
+
+/// The folder holding `path` (`.` for a bare file name).
+pub fn folder_of(path: &Path) -> &Path {
+    path.parent()
+        .filter(|p| !p.as_os_str().is_empty())
+        .unwrap_or(Path::new("."))
 }

@@ -21,7 +21,7 @@ use synodic::time::J2000_JD;
 use synodic::transfer::Leg;
 use synodic::windows::{optima_of_grid, Borders, Bounds, Optimum};
 
-use super::study::{execute, save_study, Origin, PartResult, Provenance, RunFlags};
+use super::study::{execute, folder_of, save_study, Origin, PartResult, Provenance, RunFlags};
 use crate::cli::args::SweepArgs;
 use crate::cli::input::parse_number_span;
 use crate::cli::{CliResult, Outcome};
@@ -100,15 +100,8 @@ pub fn run(args: &SweepArgs) -> CliResult<Outcome> {
     let cwd = PathBuf::from(".");
     if let Some(path) = &args.save_study {
         let mut saved = study.clone();
-        if let Some(sys) = &args.system {
-            let dir = path
-                .parent()
-                .filter(|p| !p.as_os_str().is_empty())
-                .unwrap_or(Path::new("."));
-            saved.system = relative_path(dir, sys).display().to_string();
-        }
         saved.out = Some(relative_path_lossy(path, &args.out));
-        save_study(&saved, path)?;
+        save_study(&saved, args.system.as_deref(), path)?;
     }
     execute(
         &study,
@@ -125,10 +118,7 @@ pub fn run(args: &SweepArgs) -> CliResult<Outcome> {
 
 /// The output folder as seen from the saved study's folder.
 fn relative_path_lossy(study_path: &Path, out: &Path) -> String {
-    let dir = study_path
-        .parent()
-        .filter(|p| !p.as_os_str().is_empty())
-        .unwrap_or(Path::new("."));
+    let dir = folder_of(study_path);
     if ensure_dir(out).is_ok() {
         return relative_path(dir, out).display().to_string();
     }
@@ -199,9 +189,9 @@ fn study_from_args(args: &SweepArgs) -> CliResult<Study> {
         }),
         windows: None,
         orbits: Orbits {
-            park_alt_km: args.park_alt_km,
-            capture_alt_km: args.capture_alt_km,
-            capture_ecc: args.capture_alt_km.map(|_| args.capture_ecc),
+            park_alt_km: args.orbits.park_alt_km,
+            capture_alt_km: args.orbits.capture_alt_km,
+            capture_ecc: args.orbits.capture_alt_km.map(|_| args.orbits.capture_ecc),
         },
         limits: Limits {
             max_c3_km2_s2: args.max_c3,

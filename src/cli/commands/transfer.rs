@@ -61,9 +61,9 @@ pub fn run(args: &TransferArgs) -> CliResult<Outcome> {
     let ends = resolve_endpoints(
         &system.bodies[from],
         &system.bodies[to],
-        args.park_alt_km,
-        args.capture_alt_km,
-        args.capture_ecc,
+        args.orbits.park_alt_km,
+        args.orbits.capture_alt_km,
+        args.orbits.capture_ecc,
     )?;
     let arcs = arcs_between(&system, from, to, &depart, &arrive, &ends, args.revs)?;
     let r1 = system.state(from, &depart).r_km;

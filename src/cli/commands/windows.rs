@@ -7,9 +7,7 @@ use serde::Serialize;
 use synodic::chart::{overview_png, overview_svg, OverviewPoint, OverviewSpec};
 use synodic::ephemeris::System;
 use synodic::export::{file_date, launch_period_csv, windows_csv, write_atomic, WindowRecord};
-use synodic::study::{
-    relative_path, Limits as StudyLimits, Orbits, Outputs, Pair, Study, WindowsSection,
-};
+use synodic::study::{Limits as StudyLimits, Orbits, Outputs, Pair, Study, WindowsSection};
 use synodic::sweep::Objective;
 use synodic::time::parse_span;
 use synodic::time::J2000_JD;
@@ -18,7 +16,7 @@ use synodic::windows::launch::{fixed_arrival_period, launch_period, FixedArrival
 use synodic::windows::{scan, Bounds, OpportunityWindow, ScanOptions};
 
 use super::print;
-use super::study::{endpoints, save_study, Origin, PartResult, Provenance, RunFlags};
+use super::study::{endpoints, folder_of, save_study, Origin, PartResult, Provenance, RunFlags};
 use crate::cli::args::WindowsArgs;
 use crate::cli::input::{body_pair, load_system, parse_number_span};
 use crate::cli::{CliResult, Outcome};
@@ -355,9 +353,9 @@ pub fn run(args: &WindowsArgs) -> CliResult<Outcome> {
             launch_period_days: args.launch_period_days,
         }),
         orbits: Orbits {
-            park_alt_km: args.park_alt_km,
-            capture_alt_km: args.capture_alt_km,
-            capture_ecc: args.capture_alt_km.map(|_| args.capture_ecc),
+            park_alt_km: args.orbits.park_alt_km,
+            capture_alt_km: args.orbits.capture_alt_km,
+            capture_ecc: args.orbits.capture_alt_km.map(|_| args.orbits.capture_ecc),
         },
         limits: StudyLimits {
             max_c3_km2_s2: args.max_c3,
@@ -367,15 +365,7 @@ pub fn run(args: &WindowsArgs) -> CliResult<Outcome> {
         outputs: Outputs::default(),
     };
     if let Some(path) = &args.save_study {
-        let mut saved = study.clone();
-        if let Some(sys) = &args.system {
-            let dir = path
-                .parent()
-                .filter(|p| !p.as_os_str().is_empty())
-                .unwrap_or(Path::new("."));
-            saved.system = relative_path(dir, sys).display().to_string();
-        }
-        save_study(&saved, path)?;
+        save_study(&study, args.system.as_deref(), path)?;
     }
     let system = load_system(args.system.as_deref())?;
     let (from, to) = body_pair(&system, &args.from, &args.to)?;
@@ -436,10 +426,7 @@ pub fn write_daily_tables(
     out: &Path,
     rows: &[(WindowRecord, Option<FixedArrivalPeriod>)],
 ) -> CliResult<Vec<PathBuf>> {
-    let dir = out
-        .parent()
-        .filter(|p| !p.as_os_str().is_empty())
-        .unwrap_or(Path::new("."));
+    let dir = folder_of(out);
     let mut written = Vec::new();
     for (r, fixed) in rows {
         if let Some(p) = fixed {
