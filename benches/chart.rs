@@ -50,7 +50,9 @@ fn define(c: &mut Criterion) {
 }
 
 fn main() {
-    let mut c = Criterion::default().configure_from_args();
+    // Plots off: criterion draws them with plotters, whose fonts this crate
+    // registers only for its own charts.
+    let mut c = Criterion::default().without_plots().configure_from_args();
     define(&mut c);
     c.final_summary();
 }

@@ -25,5 +25,11 @@ fn state(c: &mut Criterion) {
     });
 }
 
-criterion_group!(benches, state);
+criterion_group! {
+    name = benches;
+    // Plots off: criterion draws them with plotters, whose fonts this
+    // crate registers only for its own charts.
+    config = Criterion::default().without_plots();
+    targets = state
+}
 criterion_main!(benches);

@@ -136,5 +136,11 @@ fn bench(c: &mut Criterion) {
     });
 }
 
-criterion_group!(benches, bench);
+criterion_group! {
+    name = benches;
+    // Plots off: criterion draws them with plotters, whose fonts this
+    // crate registers only for its own charts.
+    config = Criterion::default().without_plots();
+    targets = bench
+}
 criterion_main!(benches);

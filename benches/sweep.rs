@@ -118,7 +118,12 @@ fn bare_lambert(system: &System, spec: &SweepSpec) -> usize {
 }
 
 fn main() {
-    let mut c = Criterion::default().configure_from_args().sample_size(10);
+    // Plots off: criterion draws them with plotters, whose fonts this crate
+    // registers only for its own charts.
+    let mut c = Criterion::default()
+        .without_plots()
+        .configure_from_args()
+        .sample_size(10);
     let system = System::demo();
     {
         let mut g = c.benchmark_group("sweep/zero_rev");

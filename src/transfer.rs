@@ -123,6 +123,16 @@ impl EquatorFrame {
         ))
     }
 
+    /// The length of `v` and its unit vector's components in this frame
+    /// (f32, for compact storage). A zero vector gives NaN components.
+    #[inline]
+    pub fn length_and_unit(&self, v: &Vector3<f64>) -> (f64, [f32; 3]) {
+        let (x, y, z) = (v.dot(&self.x), v.dot(&self.y), v.dot(&self.z));
+        let n = (x * x + y * y + z * z).sqrt();
+        let inv = 1.0 / n;
+        (n, [(x * inv) as f32, (y * inv) as f32, (z * inv) as f32])
+    }
+
     /// Declination and right ascension (deg) of direction `v` in this frame.
     ///
     /// Declination in [-90, 90], right ascension in [0, 360). A zero vector
@@ -143,6 +153,19 @@ impl EquatorFrame {
         let ra = if ra >= 360.0 { 0.0 } else { ra };
         (dec, ra)
     }
+}
+
+/// Declination and right ascension (deg) of a unit vector given by its
+/// components in an equator frame; NaN components give NaN angles.
+///
+/// # Method
+/// `dec = atan2(z, sqrt(x^2 + y^2))`, `ra = atan2(y, x)` in [0, 360).
+pub fn dec_ra_deg_of_unit(u: [f32; 3]) -> (f64, f64) {
+    let (x, y, z) = (f64::from(u[0]), f64::from(u[1]), f64::from(u[2]));
+    let dec = z.atan2(x.hypot(y)).to_degrees();
+    let ra = y.atan2(x).to_degrees();
+    let ra = if ra < 0.0 { ra + 360.0 } else { ra };
+    (dec, if ra >= 360.0 { 0.0 } else { ra })
 }
 
 /// A circular parking orbit around the departure body.
@@ -412,11 +435,10 @@ impl Figures {
     ) -> Figures {
         let vinf_depart = solution.v1 - depart.v_km_s;
         let vinf_arrive = solution.v2 - arrive.v_km_s;
-        let c3 = vinf_depart.norm_squared();
-        let vinf_d = c3.sqrt();
-        let vinf_a = vinf_arrive.norm();
-        let (dla, rla) = ends.depart_frame.dec_ra_deg(&vinf_depart);
-        let (adec, ara) = ends.arrive_frame.dec_ra_deg(&vinf_arrive);
+        let a = Asymptotes::of_arc(ends, depart, arrive, solution);
+        let (vinf_d, vinf_a) = (a.vinf_depart_km_s, a.vinf_arrive_km_s);
+        let c3 = vinf_d * vinf_d;
+        let (dla, rla, adec, ara) = (a.dla_deg, a.rla_deg, a.arrive_dec_deg, a.arrive_ra_deg);
         let dv_d = ends.dv_depart_km_s(vinf_d);
         let dv_a = ends.dv_arrive_km_s(vinf_a);
         let angle = solution.transfer_angle_rad;
@@ -438,6 +460,49 @@ impl Figures {
             dv_depart_km_s: dv_d,
             dv_arrive_km_s: dv_a,
             dv_total_km_s: dv_d + dv_a,
+        }
+    }
+}
+
+/// The part of [`Figures`] a grid sweep stores per cell: excess speeds
+/// and asymptote directions. Everything else follows from these.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Asymptotes {
+    /// Departure hyperbolic excess speed, km/s.
+    pub vinf_depart_km_s: f64,
+    /// Arrival hyperbolic excess speed, km/s.
+    pub vinf_arrive_km_s: f64,
+    /// DLA, deg.
+    pub dla_deg: f64,
+    /// RLA, deg.
+    pub rla_deg: f64,
+    /// Arrival asymptote declination, deg.
+    pub arrive_dec_deg: f64,
+    /// Arrival asymptote right ascension, deg.
+    pub arrive_ra_deg: f64,
+}
+
+impl Asymptotes {
+    /// Excess speeds and asymptote directions of an arc (see
+    /// [`Figures::from_arc`], which builds on this).
+    #[inline]
+    pub fn of_arc(
+        ends: &Endpoints,
+        depart: &State,
+        arrive: &State,
+        solution: &LambertSolution,
+    ) -> Asymptotes {
+        let vinf_depart = solution.v1 - depart.v_km_s;
+        let vinf_arrive = solution.v2 - arrive.v_km_s;
+        let (dla, rla) = ends.depart_frame.dec_ra_deg(&vinf_depart);
+        let (adec, ara) = ends.arrive_frame.dec_ra_deg(&vinf_arrive);
+        Asymptotes {
+            vinf_depart_km_s: vinf_depart.norm(),
+            vinf_arrive_km_s: vinf_arrive.norm(),
+            dla_deg: dla,
+            rla_deg: rla,
+            arrive_dec_deg: adec,
+            arrive_ra_deg: ara,
         }
     }
 }

@@ -81,11 +81,11 @@ pub fn grid_csv(grid: &Grid, ends: &Endpoints) -> Vec<u8> {
                         grid.transfer_angle_deg[idx],
                         vd * vd,
                         vd,
-                        grid.dla_deg[idx],
-                        grid.rla_deg[idx],
+                        grid.dla_deg(idx),
+                        grid.rla_deg(idx),
                         va,
-                        grid.arrive_dec_deg[idx],
-                        grid.arrive_ra_deg[idx],
+                        grid.arrive_dec_deg(idx),
+                        grid.arrive_ra_deg(idx),
                         dvd,
                         dva,
                         dvd + dva
@@ -99,6 +99,16 @@ pub fn grid_csv(grid: &Grid, ends: &Endpoints) -> Vec<u8> {
         }
     }
     out.into_bytes()
+}
+
+/// The unit vector with declination `dec_deg` and right ascension `ra_deg`.
+fn unit_of_dec_ra(dec_deg: f64, ra_deg: f64) -> [f32; 3] {
+    let (d, r) = (dec_deg.to_radians(), ra_deg.to_radians());
+    [
+        (d.cos() * r.cos()) as f32,
+        (d.cos() * r.sin()) as f32,
+        d.sin() as f32,
+    ]
 }
 
 /// Read a `grid.csv` written by [`grid_csv`] back into a grid with the
@@ -176,11 +186,9 @@ pub fn read_grid_csv(
             };
             grid.transfer_angle_deg[k] = num(8)? as f32;
             grid.vinf_depart_km_s[k] = num(10)?;
-            grid.dla_deg[k] = num(11)? as f32;
-            grid.rla_deg[k] = num(12)? as f32;
+            grid.depart_dir[k] = unit_of_dec_ra(num(11)?, num(12)?);
             grid.vinf_arrive_km_s[k] = num(13)?;
-            grid.arrive_dec_deg[k] = num(14)? as f32;
-            grid.arrive_ra_deg[k] = num(15)? as f32;
+            grid.arrive_dir[k] = unit_of_dec_ra(num(14)?, num(15)?);
         }
         k += 1;
     }
@@ -243,7 +251,8 @@ mod tests {
         for k in 0..grid.status.len() {
             if grid.status[k] == 0 {
                 assert!((back.vinf_depart_km_s[k] - grid.vinf_depart_km_s[k]).abs() < 1e-6);
-                assert!((back.dla_deg[k] - grid.dla_deg[k]).abs() < 1e-4);
+                assert!((back.dla_deg(k) - grid.dla_deg(k)).abs() < 1e-4);
+                assert!((back.arrive_ra_deg(k) - grid.arrive_ra_deg(k)).abs() < 1e-4);
             }
         }
         let cut: String = text.lines().take(20).map(|l| format!("{l}\n")).collect();

@@ -2,7 +2,7 @@
 
 use crate::lambert::Branch;
 use crate::time::Epoch;
-use crate::transfer::TransferType;
+use crate::transfer::{dec_ra_deg_of_unit, TransferType};
 
 /// An evenly spaced axis of dates or durations.
 ///
@@ -152,16 +152,18 @@ pub fn layers_for(max_revs: u32) -> Vec<Layer> {
 }
 
 /// Bytes of grid storage per cell and layer (see [`Grid`]).
-pub const BYTES_PER_CELL_LAYER: usize = 2 * 8 + 5 * 4 + 1;
+pub const BYTES_PER_CELL_LAYER: usize = 2 * 8 + 2 * 3 * 4 + 4 + 1;
 
 /// Result of a sweep, as a struct of arrays.
 ///
 /// Cell `(i, j)` (departure `i`, second-axis value `j`) of layer `l` sits at
 /// index `(i * n_second + j) * n_layers + l` of every array, so one
 /// departure row is a contiguous block. Speeds are stored as f64;
-/// angles as f32 (about 1e-5 deg resolution, far below what the mean
-/// elements support). C3, delta-v and time of flight are derived, not
-/// stored: [`BYTES_PER_CELL_LAYER`] = 37 bytes.
+/// asymptote directions as f32 unit vectors in the bodies' equator frames
+/// (angles good to about 1e-5 deg, far below what mean elements support)
+/// and the transfer angle as f32. C3, DLA, RLA, declinations, delta-v and
+/// time of flight are derived on reading, not stored:
+/// [`BYTES_PER_CELL_LAYER`] = 45 bytes.
 #[derive(Debug, Clone, PartialEq)]
 pub struct Grid {
     /// Departure dates.
@@ -176,14 +178,12 @@ pub struct Grid {
     pub vinf_depart_km_s: Vec<f64>,
     /// Arrival hyperbolic excess speed, km/s.
     pub vinf_arrive_km_s: Vec<f64>,
-    /// DLA, deg.
-    pub dla_deg: Vec<f32>,
-    /// RLA, deg.
-    pub rla_deg: Vec<f32>,
-    /// Declination of the arrival asymptote, deg.
-    pub arrive_dec_deg: Vec<f32>,
-    /// Right ascension of the arrival asymptote, deg.
-    pub arrive_ra_deg: Vec<f32>,
+    /// Unit vector of the outgoing asymptote in the departure body's
+    /// equator frame (DLA and RLA follow: [`Grid::dla_deg`]).
+    pub depart_dir: Vec<[f32; 3]>,
+    /// Unit vector of the incoming asymptote in the arrival body's equator
+    /// frame ([`Grid::arrive_dec_deg`]).
+    pub arrive_dir: Vec<[f32; 3]>,
     /// Transfer angle in the direction of motion, deg in [0, 360).
     pub transfer_angle_deg: Vec<f32>,
     /// [`CellStatus`] as u8.
@@ -202,12 +202,34 @@ impl Grid {
             layers,
             vinf_depart_km_s: vec![f64::NAN; n],
             vinf_arrive_km_s: vec![f64::NAN; n],
-            dla_deg: vec![f32::NAN; n],
-            rla_deg: vec![f32::NAN; n],
-            arrive_dec_deg: vec![f32::NAN; n],
-            arrive_ra_deg: vec![f32::NAN; n],
+            depart_dir: vec![[f32::NAN; 3]; n],
+            arrive_dir: vec![[f32::NAN; 3]; n],
             transfer_angle_deg: vec![f32::NAN; n],
             status: vec![CellStatus::NoSolution as u8; n],
+        }
+    }
+
+    /// A grid whose arrays are zero (a freshly mapped, lazily zeroed
+    /// allocation), for a sweep that writes every cell: the pages are then
+    /// first touched by the worker threads, not by one thread up front.
+    pub(crate) fn zeroed(
+        depart: Axis,
+        second: Axis,
+        second_kind: SecondAxis,
+        layers: Vec<Layer>,
+    ) -> Grid {
+        let n = depart.count * second.count * layers.len();
+        Grid {
+            depart,
+            second,
+            second_kind,
+            layers,
+            vinf_depart_km_s: vec![0.0; n],
+            vinf_arrive_km_s: vec![0.0; n],
+            depart_dir: vec![[0.0; 3]; n],
+            arrive_dir: vec![[0.0; 3]; n],
+            transfer_angle_deg: vec![0.0; n],
+            status: vec![0; n],
         }
     }
 
@@ -232,6 +254,26 @@ impl Grid {
         }
     }
 
+    /// DLA at an index, deg (NaN unless the status is ok).
+    pub fn dla_deg(&self, idx: usize) -> f64 {
+        dec_ra_deg_of_unit(self.depart_dir[idx]).0
+    }
+
+    /// RLA at an index, deg in [0, 360).
+    pub fn rla_deg(&self, idx: usize) -> f64 {
+        dec_ra_deg_of_unit(self.depart_dir[idx]).1
+    }
+
+    /// Declination of the arrival asymptote at an index, deg.
+    pub fn arrive_dec_deg(&self, idx: usize) -> f64 {
+        dec_ra_deg_of_unit(self.arrive_dir[idx]).0
+    }
+
+    /// Right ascension of the arrival asymptote at an index, deg.
+    pub fn arrive_ra_deg(&self, idx: usize) -> f64 {
+        dec_ra_deg_of_unit(self.arrive_dir[idx]).1
+    }
+
     /// Status of a cell.
     pub fn status_at(&self, idx: usize) -> CellStatus {
         CellStatus::from_u8(self.status[idx])
@@ -244,9 +286,14 @@ impl Grid {
         v * v
     }
 
-    /// Transfer type at an index.
+    /// Transfer type at an index (the stored angle lies in [0, 360)).
+    #[inline]
     pub fn kind_at(&self, idx: usize) -> TransferType {
-        TransferType::from_angle_rad(f64::from(self.transfer_angle_deg[idx]).to_radians())
+        if self.transfer_angle_deg[idx] < 180.0 {
+            TransferType::I
+        } else {
+            TransferType::II
+        }
     }
 
     /// Counts of cells by status over every layer.

@@ -22,7 +22,7 @@ use rayon::prelude::*;
 use crate::ephemeris::System;
 use crate::lambert::{self, Branch, Direction, LambertError, LambertProblem, LambertSolution};
 use crate::orbit::State;
-use crate::transfer::{Endpoints, Figures, SECONDS_PER_DAY};
+use crate::transfer::{Endpoints, SECONDS_PER_DAY};
 
 /// Everything that defines a sweep.
 #[derive(Debug, Clone)]
@@ -149,7 +149,7 @@ where
 
 fn sweep_in_pool<F: Fn() + Sync>(system: &System, spec: &SweepSpec, on_row: &F) -> Grid {
     let layers = spec.layers();
-    let mut grid = Grid::new(spec.depart, spec.second, spec.second_kind, layers);
+    let mut grid = Grid::zeroed(spec.depart, spec.second, spec.second_kind, layers);
     let dep_states = StateTable::new(system, spec.from, &spec.depart);
     // Arrival states: on the arrival axis, or, for time of flight, on the
     // lattice of departure + time of flight when the departure step is a
@@ -170,23 +170,19 @@ fn sweep_in_pool<F: Fn() + Sync>(system: &System, spec: &SweepSpec, on_row: &F) 
     (
         grid.vinf_depart_km_s.par_chunks_mut(row_len),
         grid.vinf_arrive_km_s.par_chunks_mut(row_len),
-        grid.dla_deg.par_chunks_mut(row_len),
-        grid.rla_deg.par_chunks_mut(row_len),
-        grid.arrive_dec_deg.par_chunks_mut(row_len),
-        grid.arrive_ra_deg.par_chunks_mut(row_len),
+        grid.depart_dir.par_chunks_mut(row_len),
+        grid.arrive_dir.par_chunks_mut(row_len),
         grid.transfer_angle_deg.par_chunks_mut(row_len),
         grid.status.par_chunks_mut(row_len),
     )
         .into_par_iter()
         .enumerate()
-        .for_each(|(i, (vd, va, dla, rla, dec, ra, ang, st))| {
+        .for_each(|(i, (vd, va, dd, ad, ang, st))| {
             let mut row = RowOut {
                 vd,
                 va,
-                dla,
-                rla,
-                dec,
-                ra,
+                dd,
+                ad,
                 ang,
                 st,
             };
@@ -246,29 +242,42 @@ struct RowContext<'a> {
 struct RowOut<'a> {
     vd: &'a mut [f64],
     va: &'a mut [f64],
-    dla: &'a mut [f32],
-    rla: &'a mut [f32],
-    dec: &'a mut [f32],
-    ra: &'a mut [f32],
+    dd: &'a mut [[f32; 3]],
+    ad: &'a mut [[f32; 3]],
     ang: &'a mut [f32],
     st: &'a mut [u8],
 }
 
 impl RowOut<'_> {
     #[inline]
-    fn put(&mut self, k: usize, f: &Figures) {
-        self.vd[k] = f.vinf_depart_km_s;
-        self.va[k] = f.vinf_arrive_km_s;
-        self.dla[k] = f.dla_deg as f32;
-        self.rla[k] = f.rla_deg as f32;
-        self.dec[k] = f.arrive_dec_deg as f32;
-        self.ra[k] = f.arrive_ra_deg as f32;
-        self.ang[k] = f.transfer_angle_deg as f32;
+    fn put(
+        &mut self,
+        k: usize,
+        ends: &Endpoints,
+        vinf_depart: &Vector3<f64>,
+        vinf_arrive: &Vector3<f64>,
+        transfer_angle_rad: f64,
+    ) {
+        let (vd, dd) = ends.depart_frame.length_and_unit(vinf_depart);
+        let (va, ad) = ends.arrive_frame.length_and_unit(vinf_arrive);
+        self.vd[k] = vd;
+        self.va[k] = va;
+        self.dd[k] = dd;
+        self.ad[k] = ad;
+        // The solver reports the angle in [0, 2 pi) already.
+        self.ang[k] = transfer_angle_rad.to_degrees() as f32;
         self.st[k] = CellStatus::Ok as u8;
     }
 
+    /// Every array is written, so the grid can start zeroed (see
+    /// [`Grid::zeroed`]).
     #[inline]
     fn fail(&mut self, k: usize, status: CellStatus) {
+        self.vd[k] = f64::NAN;
+        self.va[k] = f64::NAN;
+        self.dd[k] = [f32::NAN; 3];
+        self.ad[k] = [f32::NAN; 3];
+        self.ang[k] = f32::NAN;
         self.st[k] = status as u8;
     }
 }
@@ -323,7 +332,13 @@ impl RowContext<'_> {
                 Direction::Prograde,
                 Some(&normal),
             ) {
-                Ok(sol) => row.put(base, &Figures::from_arc(&spec.ends, s1, s2, tof_days, &sol)),
+                Ok(sol) => row.put(
+                    base,
+                    &spec.ends,
+                    &(sol.v1 - s1.v_km_s),
+                    &(sol.v2 - s2.v_km_s),
+                    sol.transfer_angle_rad,
+                ),
                 Err(e) => row.fail(base, status_of(&e)),
             }
             if spec.max_revs == 0 {
@@ -346,7 +361,13 @@ impl RowContext<'_> {
                         row.fail(l_left + 1, CellStatus::NoSolution);
                         for sol in &sols {
                             let k = layer_slot(l_left, sol);
-                            row.put(k, &Figures::from_arc(&spec.ends, s1, s2, tof_days, sol));
+                            row.put(
+                                k,
+                                &spec.ends,
+                                &(sol.v1 - s1.v_km_s),
+                                &(sol.v2 - s2.v_km_s),
+                                sol.transfer_angle_rad,
+                            );
                         }
                     }
                     Err(e) => {

@@ -198,8 +198,8 @@ fn sampled_cells_match_propagated_arcs() {
             .to_degrees();
         let dec = (vinf_a.dot(&pole(to)) / vinf_a.norm()).asin().to_degrees();
         // Stored as f32: 1e-4 deg covers the rounding.
-        assert!((f64::from(grid.dla_deg[idx]) - dla).abs() < 1e-4);
-        assert!((f64::from(grid.arrive_dec_deg[idx]) - dec).abs() < 1e-4);
+        assert!((grid.dla_deg(idx) - dla).abs() < 1e-4);
+        assert!((grid.arrive_dec_deg(idx) - dec).abs() < 1e-4);
         checked += 1;
     }
     assert!(checked >= 4, "only {checked} sampled cells solved");
