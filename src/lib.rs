@@ -10,6 +10,40 @@
 //! does not replace a mission's own navigation and flight-dynamics
 //! process, nor the applicable agency standards.
 //!
+//! ## Example
+//!
+//! One transfer and a small grid on the built-in, invented demo system:
+//!
+//! ```
+//! use synodic::ephemeris::System;
+//! use synodic::sweep::{self, grid_minima, Axis, Objective, RunOptions, SecondAxis, SweepSpec};
+//! use synodic::time::Epoch;
+//! use synodic::transfer::{arcs_between, Endpoints};
+//!
+//! let system = System::demo();
+//! let (from, to) = (system.find("Teodra")?, system.find("Kesh")?);
+//! let depart = Epoch::parse("2032-07-22")?;
+//! let arrive = Epoch::parse("2033-02-24")?;
+//! let arcs = arcs_between(&system, from, to, &depart, &arrive, &Endpoints::bare(), 0)?;
+//! let (figures, _) = &arcs[0];
+//! assert!(figures.c3_km2_s2 > 12.0 && figures.c3_km2_s2 < 14.0); // km^2/s^2
+//!
+//! // Departures every 5 days over 100 days, times of flight 150-350 days.
+//! let spec = SweepSpec {
+//!     from,
+//!     to,
+//!     depart: Axis::spanning(depart.days_since_j2000_tdb() - 50.0, depart.days_since_j2000_tdb() + 50.0, 5.0)?,
+//!     second: Axis::spanning(150.0, 350.0, 5.0)?,
+//!     second_kind: SecondAxis::TimeOfFlight,
+//!     max_revs: 0,
+//!     ends: Endpoints::bare(),
+//! };
+//! let grid = sweep::sweep(&system, &spec, RunOptions::default(), || {})?;
+//! let best = grid_minima(&grid, &spec.ends, Objective::C3);
+//! assert!(best.iter().all(|m| m.value >= figures.c3_km2_s2 - 0.5));
+//! # Ok::<(), synodic::Error>(())
+//! ```
+//!
 //! ## Modules
 //!
 //! | module | what it holds | method |
