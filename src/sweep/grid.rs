@@ -296,6 +296,27 @@ impl Grid {
         }
     }
 
+    /// The layer whose ok solution minimises `objective` at cell `(i, j)`
+    /// (ties keep the lower layer), or `None` when no layer solved it.
+    pub fn best_layer(
+        &self,
+        i: usize,
+        j: usize,
+        objective: super::Objective,
+        ends: &crate::transfer::Endpoints,
+    ) -> Option<usize> {
+        (0..self.layers.len())
+            .filter(|&l| self.status[self.index(i, j, l)] == CellStatus::Ok as u8)
+            .map(|l| {
+                let idx = self.index(i, j, l);
+                let v =
+                    objective.value(ends, self.vinf_depart_km_s[idx], self.vinf_arrive_km_s[idx]);
+                (l, v)
+            })
+            .min_by(|a, b| a.1.total_cmp(&b.1).then(a.0.cmp(&b.0)))
+            .map(|(l, _)| l)
+    }
+
     /// Counts of cells by status over every layer.
     pub fn status_counts(&self) -> [(CellStatus, usize); 3] {
         let mut c = [0usize; 3];

@@ -239,3 +239,50 @@ fn axes_include_their_end() {
     assert!(Axis::spanning(0.0, 1.0, 0.0).is_err());
     assert!(Axis::spanning(1.0, 0.0, 1.0).is_err());
 }
+
+/// With revolutions allowed, the best layer of a cell is the solved layer
+/// with the lowest objective; a cell where no arc exists has none.
+#[test]
+fn best_layer_picks_the_lowest_solved_layer() {
+    let system = System::demo();
+    let from = system.find("Teodra").expect("demo body");
+    let to = system.find("Kesh").expect("demo body");
+    let start = Epoch::parse("2031-01-01")
+        .expect("date")
+        .days_since_j2000_tdb();
+    let spec = SweepSpec {
+        from,
+        to,
+        depart: Axis::spanning(start, start + 60.0, 20.0).expect("axis"),
+        second: Axis::spanning(50.0, 1500.0, 50.0).expect("axis"),
+        second_kind: SecondAxis::TimeOfFlight,
+        max_revs: 2,
+        ends: Endpoints::bare(),
+    };
+    let grid = run(&system, &spec, None);
+    let mut multi = 0;
+    for i in 0..grid.depart.count {
+        for j in 0..grid.second.count {
+            let best = grid.best_layer(i, j, Objective::C3, &spec.ends);
+            let solved: Vec<usize> = (0..grid.layers.len())
+                .filter(|&l| grid.status_at(grid.index(i, j, l)) == CellStatus::Ok)
+                .collect();
+            match best {
+                None => assert!(solved.is_empty()),
+                Some(b) => {
+                    let v = grid.c3_km2_s2(grid.index(i, j, b));
+                    for &l in &solved {
+                        assert!(v <= grid.c3_km2_s2(grid.index(i, j, l)));
+                    }
+                    if grid.layers[b].revs > 0 {
+                        multi += 1;
+                    }
+                }
+            }
+        }
+    }
+    assert!(
+        multi > 0,
+        "some cell should be best on a multi-revolution arc"
+    );
+}
