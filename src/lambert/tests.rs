@@ -166,7 +166,7 @@ fn der_case_i() {
 /// get 5.84375455 (digits "54" and "45" transposed, all other 53 digits
 /// of the case agree). Our value is confirmed independently: the arc
 /// propagated from (r1, v1) arrives with this v2 to 1e-10 (assert_arc
-/// below), so the listed value is taken to be a transcription slip and
+/// below), so the listed value is taken to be a copying slip and
 /// that one component is checked against 5.84375455.
 #[test]
 fn der_case_ii() {
