@@ -1873,6 +1873,53 @@ mod tests {
         assert!(t.len() >= 3 && t.len() <= 8, "{t:?}");
     }
 
+    /// The main chart's SVG for the fixed specs kept under
+    /// `src/chart/testdata/`: `(file name, svg)`.
+    fn main_chart_fixtures() -> Vec<(&'static str, String)> {
+        let g = analytic_grid(SecondAxis::Arrival);
+        let a = render_svg(&spec(&g)).expect("svg");
+        let g = analytic_grid(SecondAxis::TimeOfFlight);
+        let t = render_svg(&spec(&g)).expect("svg");
+        let g = synthetic_grid(80);
+        let mut s = spec(&g);
+        s.c3_levels = None;
+        s.vinf_levels = None;
+        s.max_c3 = Some(20.0);
+        let y = render_svg(&s).expect("svg");
+        vec![
+            ("main-arrival.svg", a),
+            ("main-tof.svg", t),
+            ("main-synthetic.svg", y),
+        ]
+    }
+
+    /// The main transfer-window chart is byte-identical to the saved copies
+    /// (taken before the panels were added to the renderer).
+    #[test]
+    fn main_chart_matches_saved_svg() {
+        let saved = [
+            include_str!("testdata/main-arrival.svg"),
+            include_str!("testdata/main-tof.svg"),
+            include_str!("testdata/main-synthetic.svg"),
+        ];
+        for ((name, now), old) in main_chart_fixtures().iter().zip(saved) {
+            assert_eq!(now.len(), old.len(), "{name}: length changed");
+            assert!(now == old, "{name}: content changed");
+        }
+    }
+
+    /// Rewrites the saved copies (only when the main chart is meant to
+    /// change): `cargo test --release --lib write_main_fixtures -- --ignored`.
+    #[test]
+    #[ignore]
+    fn write_main_fixtures() {
+        let dir = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("src/chart/testdata");
+        std::fs::create_dir_all(&dir).expect("mkdir");
+        for (name, svg) in main_chart_fixtures() {
+            std::fs::write(dir.join(name), svg).expect("write");
+        }
+    }
+
     /// Writes `/tmp/chart-example.png` and `.svg` from the synthetic grid
     /// for a visual check: `cargo test --release --lib write_example -- --ignored`.
     #[test]
