@@ -9,8 +9,8 @@
 //!
 //! In the SVG each data line carries a `class` (`c3`, `vinf`, `tof`,
 //! `ridge`, `c3max`, `panel`; `legend` for the legend's samples) so that
-//! tools and tests can find them; dashes are `stroke-dasharray` there and drawn dash
-//! by dash in the PNG.
+//! tools and tests can find them; dashes are `stroke-dasharray` there and
+//! drawn dash by dash in the PNG.
 
 use std::sync::OnceLock;
 
@@ -2180,6 +2180,62 @@ mod tests {
         assert_eq!(render_svg(&spec(&g)).expect("svg"), before);
     }
 
+    #[test]
+    fn panel_lines_stay_out_of_blank_cells() {
+        let g = panel_grid();
+        let lay = layout(DEFAULT_WIDTH_PX, DEFAULT_HEIGHT_PX);
+        let map = Map {
+            xmin: g.depart.start_days,
+            xmax: g.depart.end_days(),
+            ymin: g.second.start_days,
+            ymax: g.second.end_days(),
+            plot: lay.plot,
+        };
+        for panel in Panel::ALL {
+            let svg = render_panel_svg(&spec(&g), panel, &Endpoints::bare()).expect("svg");
+            let mut n = 0;
+            for (class, pts) in polylines(&svg) {
+                if class != "panel" {
+                    continue;
+                }
+                for (x, y) in pts {
+                    let d = map.data_x(x / 2.0) - dc();
+                    let tof = map.data_y(y / 2.0) - map.data_x(x / 2.0);
+                    let inside =
+                        d > 30.0 + 3.0 && d < 50.0 - 3.0 && tof > 240.0 + 6.0 && tof < 280.0 - 6.0;
+                    assert!(!inside, "{} line in the block", panel.name());
+                    assert!(
+                        tof > 80.0 - 6.0,
+                        "{} line in the blank corner",
+                        panel.name()
+                    );
+                    n += 1;
+                }
+            }
+            assert!(n > 20, "{}: {n} points", panel.name());
+        }
+    }
+
+    #[test]
+    fn panels_on_time_of_flight_grids_and_fields_without_values() {
+        // Time-of-flight axis: no diagonals, the panel's lines still drawn.
+        let mut g = analytic_grid(SecondAxis::TimeOfFlight);
+        for idx in 0..g.cells() {
+            g.depart_dir[idx] = [0.6, 0.0, 0.8];
+        }
+        let svg = render_panel_svg(&spec(&g), Panel::DvTotal, &Endpoints::bare()).expect("svg");
+        let lines = polylines(&svg);
+        assert_eq!(count(&lines, "tof"), 0);
+        assert!(count(&lines, "panel") >= 5);
+        // A flat DLA (53.13 deg everywhere) and an unknown arrival
+        // direction (NaN) give no lines, but still a chart.
+        for panel in [Panel::Dla, Panel::ArriveDec] {
+            let svg = render_panel_svg(&spec(&g), panel, &Endpoints::bare()).expect("svg");
+            assert_eq!(count(&polylines(&svg), "panel"), 0);
+            assert!(texts(&svg).iter().any(|t| t == panel.legend()));
+        }
+    }
+
     /// Writes `/tmp/panel-<name>.png` for each panel from the synthetic and
     /// the analytic grids, for a visual check:
     /// `cargo test --release --lib write_panel_examples -- --ignored`.
@@ -2199,6 +2255,9 @@ mod tests {
             std::fs::write(format!("/tmp/panel-{}.png", panel.name()), png_bytes).expect("write");
             let svg = render_panel_svg(&spec(&g), panel, &Endpoints::bare()).expect("svg");
             std::fs::write(format!("/tmp/panel-{}.svg", panel.name()), svg).expect("write");
+            let small =
+                render_panel_png(&spec(&g), panel, &Endpoints::bare(), 800, 600).expect("png");
+            std::fs::write(format!("/tmp/panel-{}-small.png", panel.name()), small).expect("write");
         }
     }
 
