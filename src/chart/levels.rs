@@ -118,6 +118,43 @@ fn auto_from(min: f64, top: f64, max_lines: usize) -> Vec<f64> {
     out
 }
 
+/// Evenly spaced round levels strictly inside the range of `values` (NaN
+/// ignored), at most `max_lines` of them: the step is the smallest of 1, 2
+/// or 5 times a power of ten that keeps within the cap. For fields without
+/// a minimum worth crowding around, such as angles.
+///
+/// Empty when there are no finite values, the field is flat, or
+/// `max_lines` is 0.
+///
+/// # Properties
+/// Levels are finite, strictly increasing, multiples of one step, all
+/// strictly between the field's minimum and maximum.
+pub fn even_levels(values: impl IntoIterator<Item = f64>, max_lines: usize) -> Vec<f64> {
+    let (min, max) = values
+        .into_iter()
+        .filter(|x| x.is_finite())
+        .fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), x| {
+            (a.min(x), b.max(x))
+        });
+    // No finite values leave min = inf, max = -inf.
+    if max_lines == 0 || max <= min {
+        return Vec::new();
+    }
+    let mut step = nice_ceil((max - min) / (max_lines as f64 + 1.0));
+    loop {
+        let first = (min / step).floor() + 1.0;
+        let last = (max / step).ceil() - 1.0;
+        let n = last - first + 1.0;
+        if n <= max_lines as f64 {
+            return (0..n.max(0.0) as usize)
+                .map(|i| snap((first + i as f64) * step, step))
+                .filter(|l| *l > min && *l < max)
+                .collect();
+        }
+        step = next_nice(step);
+    }
+}
+
 /// C3 levels, km^2/s^2: automatic (at most [`MAX_C3_LINES`]) from the
 /// field's values.
 pub fn c3_levels(c3_km2_s2: impl IntoIterator<Item = f64>) -> Vec<f64> {
@@ -225,6 +262,28 @@ mod tests {
         let l = c3_levels(v.iter().copied());
         assert!(l.iter().all(|x| x.is_finite()));
         assert_eq!(auto_levels(v.iter().copied(), 0), Vec::<f64>::new());
+    }
+
+    #[test]
+    fn even_ladder_spans_the_range_with_one_round_step() {
+        // -47.3 .. 58.9 deg: every 10 deg from -40 to 50.
+        let v: Vec<f64> = (0..=100)
+            .map(|i| -47.3 + 106.2 * f64::from(i) / 100.0)
+            .chain([f64::NAN])
+            .collect();
+        let l = even_levels(v.iter().copied(), 12);
+        assert_eq!(l.len(), 10, "{l:?}");
+        assert!((l[0] + 40.0).abs() < 1e-9 && (l[9] - 50.0).abs() < 1e-9);
+        // A tighter cap widens the step along 1-2-5.
+        let l = even_levels(v.iter().copied(), 5);
+        assert_eq!(l, vec![-40.0, -20.0, 0.0, 20.0, 40.0]);
+        // A narrow range gets fine steps.
+        let l = even_levels([0.12, 0.31], 12);
+        assert!(l.len() >= 5 && l.len() <= 12, "{l:?}");
+        assert!(l.iter().all(|x| format_level(*x).len() <= 4), "{l:?}");
+        assert!(even_levels([3.0; 4], 12).is_empty());
+        assert!(even_levels([f64::NAN], 12).is_empty());
+        assert!(even_levels([0.0, 1.0], 0).is_empty());
     }
 
     #[test]

@@ -13,6 +13,11 @@
 //! * an optional shaded region where C3 stays within a limit,
 //! * markers with their annotations, a legend, title, subtitle and caption.
 //!
+//! A [`Panel`] ([`render_panel_svg`], [`render_panel_png`]) is the same
+//! frame with another quantity contoured instead of C3 and v-infinity: the
+//! departure asymptote's declination (DLA), the arrival asymptote's
+//! declination, or the total delta-v.
+//!
 //! [`isolines`] turns a sampled field into polylines (marching squares, via
 //! the `contour` crate), [`levels`] picks contour levels, and the renderer
 //! draws with `plotters`, once for both formats: the PNG is drawn at twice
@@ -27,9 +32,11 @@
 pub mod isolines;
 pub mod levels;
 mod overview;
+mod panel;
 mod render;
 
 pub use overview::{overview_png, overview_svg, OverviewPoint, OverviewSpec};
+pub use panel::{render_panel_png, render_panel_svg, Panel, MAX_ANGLE_LINES};
 pub use render::{render_png, render_svg, DEFAULT_HEIGHT_PX, DEFAULT_WIDTH_PX};
 
 use crate::sweep::{layers_for, Axis, CellStatus, Grid, SecondAxis};

@@ -8,9 +8,9 @@
 //! `width`/`height`, which gives it half-pixel coordinates.
 //!
 //! In the SVG each data line carries a `class` (`c3`, `vinf`, `tof`,
-//! `ridge`, `c3max`; `legend` for the legend's samples) so that tools and
-//! tests can find them; dashes are `stroke-dasharray` there and drawn dash
-//! by dash in the PNG.
+//! `ridge`, `c3max`, `panel`; `legend` for the legend's samples) so that
+//! tools and tests can find them; dashes are `stroke-dasharray` there and
+//! drawn dash by dash in the PNG.
 
 use std::sync::OnceLock;
 
@@ -22,9 +22,11 @@ use plotters::style::{FontStyle, FontTransform};
 
 use super::isolines::{extend_one_sample, isolines, Isoline, Lattice};
 use super::levels::{c3_levels, explicit_levels, format_level, nice_ceil, vinf_levels};
+use super::panel::Panel;
 use super::{date_label_tdb, days_j2000_from_civil, ChartError, ChartSpec};
 use crate::lambert::Branch;
 use crate::sweep::{CellStatus, Grid, SecondAxis};
+use crate::transfer::Endpoints;
 
 /// Default PNG width, px.
 pub const DEFAULT_WIDTH_PX: u32 = 1800;
@@ -64,6 +66,10 @@ const MASK_RGB: RGBColor = RGBColor(0xe3, 0xe3, 0xe3);
 pub(crate) const GRIDLINE_RGB: RGBColor = RGBColor(0xea, 0xea, 0xea);
 const FRAME_RGB: RGBColor = RGBColor(0x44, 0x44, 0x44);
 const MARKER_RGB: RGBColor = RGBColor(0xff, 0xc8, 0x2e);
+/// A panel's single contour family: a deep teal, away from the C3 blue,
+/// the v-infinity orange, the ridge purple and the limit green in hue and
+/// lightness.
+pub(crate) const PANEL_RGB: RGBColor = RGBColor(0x00, 0x7d, 0x8a);
 const PAPER: RGBColor = RGBColor(0xff, 0xff, 0xff);
 
 /// The kinds of line the chart draws.
@@ -74,10 +80,19 @@ enum Line {
     Tof,
     Ridge,
     Limit,
+    /// The contour family of a panel.
+    Panel,
 }
 
 impl Line {
-    const ALL: [Line; 5] = [Line::C3, Line::Vinf, Line::Tof, Line::Ridge, Line::Limit];
+    const ALL: [Line; 6] = [
+        Line::C3,
+        Line::Vinf,
+        Line::Tof,
+        Line::Ridge,
+        Line::Limit,
+        Line::Panel,
+    ];
 
     fn class(self) -> &'static str {
         match self {
@@ -86,6 +101,7 @@ impl Line {
             Line::Tof => "tof",
             Line::Ridge => "ridge",
             Line::Limit => "c3max",
+            Line::Panel => "panel",
         }
     }
 
@@ -96,6 +112,7 @@ impl Line {
             Line::Tof => TOF_RGB,
             Line::Ridge => RIDGE_RGB,
             Line::Limit => LIMIT_RGB,
+            Line::Panel => PANEL_RGB,
         }
     }
 
@@ -114,13 +131,14 @@ impl Line {
             Line::Tof => 1.0,
             Line::Ridge => 2.2,
             Line::Limit => 2.4,
+            Line::Panel => 1.6,
         }
     }
 
     /// Dash (on, off), logical px; `None` = solid.
     fn dash_px(self) -> Option<(f64, f64)> {
         match self {
-            Line::C3 | Line::Limit => None,
+            Line::C3 | Line::Limit | Line::Panel => None,
             Line::Vinf => Some((11.0, 6.0)),
             Line::Tof => Some((2.0, 5.0)),
             Line::Ridge => Some((22.0, 5.0)),
@@ -666,42 +684,95 @@ fn mask_field(masked: &[bool], nx: usize, ny: usize) -> Vec<f64> {
     out
 }
 
+/// What a chart contours.
+#[derive(Debug, Clone, Copy)]
+pub(crate) enum Contours<'e> {
+    /// The transfer-window chart: C3, arrival v-infinity, the C3 limit.
+    Window,
+    /// One panel quantity; the endpoints turn excess speeds into delta-v.
+    Panel(Panel, &'e Endpoints),
+}
+
 /// Everything that decides what is drawn, shared by both formats.
 struct Plan<'s, 'g> {
     spec: &'s ChartSpec<'g>,
+    /// The title as drawn.
+    title: String,
     fields: Fields,
     map: Map,
     c3: Vec<Isoline>,
     vinf: Vec<Isoline>,
+    /// The panel drawn and its lines (`None` on the main chart).
+    panel: Option<(Panel, Vec<Isoline>)>,
     ridge: Vec<Isoline>,
     limit: Vec<Isoline>,
     shade: Vec<Region>,
     mask: Vec<Region>,
 }
 
-fn plan<'s, 'g>(spec: &'s ChartSpec<'g>, lay: &Layout) -> Result<Plan<'s, 'g>, ChartError> {
+/// The panel's field on the chart's lattice: the quantity at every solved
+/// cell, NaN elsewhere.
+fn panel_field(spec: &ChartSpec<'_>, lat: &Lattice, panel: Panel, ends: &Endpoints) -> Vec<f64> {
+    let grid = spec.grid;
+    let mut out = vec![f64::NAN; lat.nx * lat.ny];
+    for i in 0..lat.nx {
+        for j in 0..lat.ny {
+            let idx = grid.index(i, j, spec.layer);
+            if grid.status[idx] != CellStatus::Ok as u8 {
+                continue;
+            }
+            let v = panel.value(grid, idx, ends);
+            if v.is_finite() {
+                out[j * lat.nx + i] = v;
+            }
+        }
+    }
+    out
+}
+
+fn plan<'s, 'g>(
+    spec: &'s ChartSpec<'g>,
+    lay: &Layout,
+    contours: Contours<'_>,
+) -> Result<Plan<'s, 'g>, ChartError> {
     let fields = fields(spec.grid, spec.layer)?;
     let lat = fields.lattice;
-    let c3_lv = match &spec.c3_levels {
-        Some(v) => explicit_levels(v),
-        None => c3_levels(fields.c3.iter().copied()),
-    };
-    let vinf_lv = match &spec.vinf_levels {
-        Some(v) => explicit_levels(v),
-        None => vinf_levels(fields.vinf.iter().copied()),
-    };
-    // A C3 level equal to the shaded limit is drawn once, as the limit.
-    let c3_lv: Vec<f64> = match spec.max_c3 {
-        Some(max) => c3_lv
-            .into_iter()
-            .filter(|l| (l - max).abs() > 1e-9 * (1.0 + max.abs()))
-            .collect(),
-        None => c3_lv,
-    };
-    let c3 = isolines(&fields.c3, &lat, &c3_lv)?;
-    let vinf = isolines(&fields.vinf, &lat, &vinf_lv)?;
     let ridge = isolines(&fields.ridge, &lat, &[0.0])?;
-    let (limit, shade) = match spec.max_c3 {
+    let (title, c3, vinf, panel, max_c3) = match contours {
+        Contours::Window => {
+            let c3_lv = match &spec.c3_levels {
+                Some(v) => explicit_levels(v),
+                None => c3_levels(fields.c3.iter().copied()),
+            };
+            let vinf_lv = match &spec.vinf_levels {
+                Some(v) => explicit_levels(v),
+                None => vinf_levels(fields.vinf.iter().copied()),
+            };
+            // A C3 level equal to the shaded limit is drawn once, as the limit.
+            let c3_lv: Vec<f64> = match spec.max_c3 {
+                Some(max) => c3_lv
+                    .into_iter()
+                    .filter(|l| (l - max).abs() > 1e-9 * (1.0 + max.abs()))
+                    .collect(),
+                None => c3_lv,
+            };
+            let c3 = isolines(&fields.c3, &lat, &c3_lv)?;
+            let vinf = isolines(&fields.vinf, &lat, &vinf_lv)?;
+            (spec.title.clone(), c3, vinf, None, spec.max_c3)
+        }
+        Contours::Panel(panel, ends) => {
+            let field = panel_field(spec, &lat, panel, ends);
+            let levels = panel.levels(field.iter().copied());
+            let lines = isolines(&field, &lat, &levels)?;
+            let title = if spec.title.is_empty() {
+                panel.title_suffix().to_string()
+            } else {
+                format!("{} — {}", spec.title, panel.title_suffix())
+            };
+            (title, Vec::new(), Vec::new(), Some((panel, lines)), None)
+        }
+    };
+    let (limit, shade) = match max_c3 {
         Some(max) if max.is_finite() => {
             let lim = isolines(&fields.c3, &lat, &[max])?;
             // C3 <= max as -C3 >= -max, extended one sample into the mask
@@ -729,10 +800,12 @@ fn plan<'s, 'g>(spec: &'s ChartSpec<'g>, lay: &Layout) -> Result<Plan<'s, 'g>, C
     };
     Ok(Plan {
         spec,
+        title,
         fields,
         map,
         c3,
         vinf,
+        panel,
         ridge,
         limit,
         shade,
@@ -955,6 +1028,18 @@ fn draw<DB: DrawingBackend>(
     draw_iso(&plan.vinf, Line::Vinf, &mut vinf_px)?;
     draw_iso(&plan.c3, Line::C3, &mut c3_px)?;
     draw_iso(&plan.limit, Line::Limit, &mut limit_px)?;
+    let mut panel_px = Vec::new();
+    if let Some((panel, lines)) = &plan.panel {
+        let kind = Line::Panel;
+        for l in lines {
+            let text = panel.level_text(l.level);
+            for piece in &l.pieces {
+                let px = plan.to_px(piece);
+                pen.line(&px, kind.colour(), kind.width_px(), kind.dash_px())?;
+                panel_px.push((text.clone(), px));
+            }
+        }
+    }
 
     // 5. Frame, ticks and axis labels.
     pen.line(
@@ -1061,6 +1146,7 @@ fn draw<DB: DrawingBackend>(
     place_line_labels(&pen, &mut placer, &limit_px, LIMIT_RGB, k, &mut labels)?;
     place_line_labels(&pen, &mut placer, &c3_px, C3_RGB, k, &mut labels)?;
     place_line_labels(&pen, &mut placer, &vinf_px, VINF_RGB, k, &mut labels)?;
+    place_line_labels(&pen, &mut placer, &panel_px, PANEL_RGB, k, &mut labels)?;
 
     // Type I / Type II either side of the longest ridge piece.
     if let Some((_, pts)) = ridge_px.iter().max_by(|a, b| {
@@ -1160,7 +1246,7 @@ fn draw<DB: DrawingBackend>(
 
     // 7. Title, subtitle, legend, caption.
     pen.text(
-        &spec.title,
+        &plan.title,
         (plot.x0, 30.0 * k),
         32.0,
         &INK,
@@ -1216,10 +1302,13 @@ fn draw_legend<DB: DrawingBackend>(
         Patch(RGBColor, Option<Line>),
         Marker,
     }
-    let mut rows: Vec<(Sample, String)> = vec![
-        (Sample::Line(Line::C3), "Departure C3, km²/s²".to_string()),
-        (Sample::Line(Line::Vinf), "Arrival v∞, km/s".to_string()),
-    ];
+    let mut rows: Vec<(Sample, String)> = match &plan.panel {
+        None => vec![
+            (Sample::Line(Line::C3), "Departure C3, km²/s²".to_string()),
+            (Sample::Line(Line::Vinf), "Arrival v∞, km/s".to_string()),
+        ],
+        Some((panel, _)) => vec![(Sample::Line(Line::Panel), panel.legend().to_string())],
+    };
     if spec.grid.second_kind == SecondAxis::Arrival {
         rows.push((Sample::Line(Line::Tof), "Time of flight, days".to_string()));
     }
@@ -1229,7 +1318,10 @@ fn draw_legend<DB: DrawingBackend>(
             "Type I / II boundary (180°)".to_string(),
         ));
     }
-    if let Some(max) = spec.max_c3.filter(|m| m.is_finite()) {
+    if let Some(max) = spec
+        .max_c3
+        .filter(|m| m.is_finite() && plan.panel.is_none())
+    {
         rows.push((
             Sample::Patch(SHADE_RGB, Some(Line::Limit)),
             format!("C3 ≤ {} km²/s²", format_level(max)),
@@ -1341,14 +1433,19 @@ pub(crate) fn ensure_font() -> Result<(), ChartError> {
 /// [`ChartError::NoSuchLayer`], [`ChartError::GridTooSmall`] and friends
 /// for an unusable grid; [`ChartError::Draw`] if drawing fails.
 pub fn render_svg(spec: &ChartSpec) -> Result<String, ChartError> {
-    svg_sized(spec, DEFAULT_WIDTH_PX, DEFAULT_HEIGHT_PX)
+    svg_sized(spec, Contours::Window, DEFAULT_WIDTH_PX, DEFAULT_HEIGHT_PX)
 }
 
-fn svg_sized(spec: &ChartSpec, width_px: u32, height_px: u32) -> Result<String, ChartError> {
+pub(crate) fn svg_sized(
+    spec: &ChartSpec,
+    contours: Contours<'_>,
+    width_px: u32,
+    height_px: u32,
+) -> Result<String, ChartError> {
     check_size(width_px, height_px)?;
     ensure_font()?;
     let lay = layout(width_px, height_px);
-    let plan = plan(spec, &lay)?;
+    let plan = plan(spec, &lay, contours)?;
     let (bw, bh) = (width_px * SUPERSAMPLE, height_px * SUPERSAMPLE);
     let mut svg = String::new();
     {
@@ -1403,10 +1500,19 @@ fn fmt_num(v: f64) -> String {
 /// for an unusable grid; [`ChartError::Draw`] or [`ChartError::Png`] if
 /// drawing or encoding fails.
 pub fn render_png(spec: &ChartSpec, width_px: u32, height_px: u32) -> Result<Vec<u8>, ChartError> {
+    png_sized(spec, Contours::Window, width_px, height_px)
+}
+
+pub(crate) fn png_sized(
+    spec: &ChartSpec,
+    contours: Contours<'_>,
+    width_px: u32,
+    height_px: u32,
+) -> Result<Vec<u8>, ChartError> {
     check_size(width_px, height_px)?;
     ensure_font()?;
     let lay = layout(width_px, height_px);
-    let plan = plan(spec, &lay)?;
+    let plan = plan(spec, &lay, contours)?;
     let (bw, bh) = (width_px * SUPERSAMPLE, height_px * SUPERSAMPLE);
     let mut big = vec![255u8; bw as usize * bh as usize * 3];
     {
@@ -1463,7 +1569,7 @@ pub(crate) fn downsample_2x(big: &[u8], w: usize, h: usize) -> Vec<u8> {
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::chart::{synthetic_grid, Marker};
+    use crate::chart::{render_panel_png, render_panel_svg, synthetic_grid, Marker};
     use crate::sweep::{layers_for, Axis};
 
     /// Centre of the analytic window, days past J2000 TDB.
@@ -1871,6 +1977,335 @@ mod tests {
         // Short spans fall back to days.
         let t = date_ticks(lo, lo + 20.0, 8);
         assert!(t.len() >= 3 && t.len() <= 8, "{t:?}");
+    }
+
+    /// The analytic arrival-date grid with asymptote directions filled:
+    /// DLA = -47 + 94 x deg, x = (d - first departure) / 398 days (linear
+    /// in the departure date); arrival declination = -25 + 50 y deg,
+    /// y = (a - first arrival) / 597 days (linear in the arrival date).
+    fn panel_grid() -> Grid {
+        let mut g = analytic_grid(SecondAxis::Arrival);
+        let (d0, a0) = g.dates_days(0, 0);
+        let unit = |dec_deg: f64| {
+            let r = dec_deg.to_radians();
+            [r.cos() as f32, 0.0, r.sin() as f32]
+        };
+        for i in 0..200 {
+            for j in 0..200 {
+                let (d, a) = g.dates_days(i, j);
+                let idx = g.index(i, j, 0);
+                g.depart_dir[idx] = unit(-47.0 + 94.0 * (d - d0) / 398.0);
+                g.arrive_dir[idx] = unit(-25.0 + 50.0 * (a - a0) / 597.0);
+            }
+        }
+        g
+    }
+
+    /// What every panel shares: the frame, no C3 or v-infinity family, no
+    /// C3 limit, the panel's legend and title.
+    fn check_panel_frame(svg: &str, panel: Panel) -> Vec<(String, Vec<(f64, f64)>)> {
+        let lines = polylines(svg);
+        for class in ["c3", "vinf", "c3max"] {
+            assert_eq!(count(&lines, class), 0, "{class} lines on a panel");
+        }
+        assert!(!svg.contains("class=\"c3\""));
+        assert!(!svg.contains("class=\"vinf\""));
+        assert_eq!(count(&lines, "ridge"), 2);
+        assert!(count(&lines, "tof") >= 3);
+        // Solid lines of their own colour.
+        assert!(svg.contains("class=\"panel\" fill=\"none\" opacity=\"1\" stroke=\"#007D8A\""));
+        let t = texts(svg);
+        for want in [
+            panel.legend(),
+            "Type I",
+            "Type II",
+            "C3 5.00 · 2031-07-20 → 2032-04-05",
+            "Departure date (TDB)",
+            "Arrival date (TDB)",
+            "No solution",
+            CAPTION,
+        ] {
+            assert!(t.iter().any(|x| x == want), "{want} missing: {t:?}");
+        }
+        let title = format!("Teodra → Kesh, 2031 opportunity — {}", panel.title_suffix());
+        assert!(t.contains(&title), "{title} missing");
+        for gone in ["Departure C3, km²/s²", "Arrival v∞, km/s", "C3 ≤ 25 km²/s²"] {
+            assert!(!t.iter().any(|x| x == gone), "{gone} on a panel");
+        }
+        lines
+    }
+
+    #[test]
+    fn dla_panel_draws_one_labelled_family() {
+        let g = panel_grid();
+        let svg = render_panel_svg(&spec(&g), Panel::Dla, &Endpoints::bare()).expect("svg");
+        let lines = check_panel_frame(&svg, Panel::Dla);
+        // DLA spans -47..47 deg: lines every 10 deg from -40 to 40, each a
+        // vertical line; the 10-degree line is cut in two by the blank
+        // block (DLA 7.3..12 deg there).
+        assert_eq!(count(&lines, "panel"), 10);
+        let t = texts(&svg);
+        for l in [-40, -30, -20, -10, 0, 10, 20, 30, 40] {
+            let label = format!("{l}°");
+            assert!(t.contains(&label), "label {label} missing: {t:?}");
+        }
+        assert!(!t.iter().any(|x| x == "50°" || x == "-50°"));
+        // Vertical: every point of a line sits at the departure date of
+        // its level.
+        let lay = layout(DEFAULT_WIDTH_PX, DEFAULT_HEIGHT_PX);
+        let d0 = g.depart.start_days;
+        let map = Map {
+            xmin: d0,
+            xmax: g.depart.end_days(),
+            ymin: g.second.start_days,
+            ymax: g.second.end_days(),
+            plot: lay.plot,
+        };
+        for (class, pts) in &lines {
+            if class != "panel" {
+                continue;
+            }
+            let dla: Vec<f64> = pts
+                .iter()
+                .map(|p| -47.0 + 94.0 * (map.data_x(p.0 / 2.0) - d0) / 398.0)
+                .collect();
+            let level = (dla[0] / 10.0).round() * 10.0;
+            assert!(dla.iter().all(|v| (v - level).abs() < 0.3), "{dla:?}");
+        }
+    }
+
+    #[test]
+    fn arrival_declination_panel_draws_one_labelled_family() {
+        let g = panel_grid();
+        let svg = render_panel_svg(&spec(&g), Panel::ArriveDec, &Endpoints::bare()).expect("svg");
+        let lines = check_panel_frame(&svg, Panel::ArriveDec);
+        // -25..25 deg: every 5 deg from -20 to 20, horizontal lines; the
+        // 10-degree line is cut in two by the blank block.
+        assert_eq!(count(&lines, "panel"), 10);
+        let t = texts(&svg);
+        for l in [-20, -15, -10, -5, 0, 5, 10, 15, 20] {
+            let label = format!("{l}°");
+            assert!(t.contains(&label), "label {label} missing: {t:?}");
+        }
+    }
+
+    #[test]
+    fn total_dv_panel_is_denser_near_the_minimum() {
+        let g = panel_grid();
+        let svg = render_panel_svg(&spec(&g), Panel::DvTotal, &Endpoints::bare()).expect("svg");
+        let lines = check_panel_frame(&svg, Panel::DvTotal);
+        // Without burns to count, total delta-v is the departure excess
+        // speed sqrt(C3): a bowl from sqrt(5) = 2.24 km/s.
+        // Levels start just above it with 0.2 km/s steps and widen.
+        let levels = [2.4, 2.6, 3.0, 3.5, 4.0, 5.0, 6.0, 8.0];
+        let t = texts(&svg);
+        for l in levels {
+            assert!(t.contains(&format_level(l)), "label {l} missing: {t:?}");
+        }
+        for absent in ["2.2", "2.8", "4.5", "7", "10"] {
+            assert!(!t.iter().any(|x| x == absent), "{absent} drawn: {t:?}");
+        }
+        assert!(!t.iter().any(|x| x.ends_with('°')), "no degrees");
+        // One ring per level (the 3 and 3.5 rings run through the blank
+        // block and come out as one arc each).
+        assert_eq!(count(&lines, "panel"), levels.len());
+    }
+
+    #[test]
+    fn total_dv_panel_counts_the_burns() {
+        let g = panel_grid();
+        let bare = render_panel_svg(&spec(&g), Panel::DvTotal, &Endpoints::bare()).expect("svg");
+        let ends = Endpoints {
+            parking: Some(crate::transfer::ParkingOrbit {
+                mu_km3_s2: 398_600.0,
+                radius_km: 6_578.0,
+            }),
+            ..Endpoints::bare()
+        };
+        let burn = render_panel_svg(&spec(&g), Panel::DvTotal, &ends).expect("svg");
+        assert_ne!(bare, burn);
+        // Injection from a low orbit: the minimum is about 3.6 km/s.
+        let t = texts(&burn);
+        assert!(!t.iter().any(|x| x == "2.4"), "{t:?}");
+        assert!(count(&polylines(&burn), "panel") >= 5);
+    }
+
+    #[test]
+    fn panels_leave_the_main_chart_alone_and_render_as_png() {
+        let g = panel_grid();
+        let before = render_svg(&spec(&g)).expect("svg");
+        for panel in Panel::ALL {
+            let bytes =
+                render_panel_png(&spec(&g), panel, &Endpoints::bare(), 900, 675).expect("png");
+            let (w, h, rgb) = decode(&bytes);
+            assert_eq!((w, h), (900, 675));
+            let near = |c: RGBColor, tol: i32| {
+                rgb.chunks_exact(3).any(|p| {
+                    (i32::from(p[0]) - i32::from(c.0)).abs() <= tol
+                        && (i32::from(p[1]) - i32::from(c.1)).abs() <= tol
+                        && (i32::from(p[2]) - i32::from(c.2)).abs() <= tol
+                })
+            };
+            for c in [MASK_RGB, MARKER_RGB, PAPER] {
+                assert!(near(c, 2), "{c:?} missing on {}", panel.name());
+            }
+            // No C3 limit shading on a panel.
+            assert!(!near(SHADE_RGB, 0), "shade on {}", panel.name());
+            let big = render_panel_png(
+                &spec(&g),
+                panel,
+                &Endpoints::bare(),
+                DEFAULT_WIDTH_PX,
+                DEFAULT_HEIGHT_PX,
+            )
+            .expect("png");
+            let (_, _, rgb) = decode(&big);
+            assert!(
+                rgb.chunks_exact(3)
+                    .any(|p| (p[0], p[1], p[2]) == (PANEL_RGB.0, PANEL_RGB.1, PANEL_RGB.2)),
+                "panel colour missing on {}",
+                panel.name()
+            );
+        }
+        assert!(matches!(
+            render_panel_png(&spec(&g), Panel::Dla, &Endpoints::bare(), 100, 100),
+            Err(ChartError::ImageSize { .. })
+        ));
+        let mut s = spec(&g);
+        s.layer = 2;
+        assert!(matches!(
+            render_panel_svg(&s, Panel::Dla, &Endpoints::bare()),
+            Err(ChartError::NoSuchLayer { .. })
+        ));
+        assert_eq!(render_svg(&spec(&g)).expect("svg"), before);
+    }
+
+    #[test]
+    fn panel_lines_stay_out_of_blank_cells() {
+        let g = panel_grid();
+        let lay = layout(DEFAULT_WIDTH_PX, DEFAULT_HEIGHT_PX);
+        let map = Map {
+            xmin: g.depart.start_days,
+            xmax: g.depart.end_days(),
+            ymin: g.second.start_days,
+            ymax: g.second.end_days(),
+            plot: lay.plot,
+        };
+        for panel in Panel::ALL {
+            let svg = render_panel_svg(&spec(&g), panel, &Endpoints::bare()).expect("svg");
+            let mut n = 0;
+            for (class, pts) in polylines(&svg) {
+                if class != "panel" {
+                    continue;
+                }
+                for (x, y) in pts {
+                    let d = map.data_x(x / 2.0) - dc();
+                    let tof = map.data_y(y / 2.0) - map.data_x(x / 2.0);
+                    let inside =
+                        d > 30.0 + 3.0 && d < 50.0 - 3.0 && tof > 240.0 + 6.0 && tof < 280.0 - 6.0;
+                    assert!(!inside, "{} line in the block", panel.name());
+                    assert!(
+                        tof > 80.0 - 6.0,
+                        "{} line in the blank corner",
+                        panel.name()
+                    );
+                    n += 1;
+                }
+            }
+            assert!(n > 20, "{}: {n} points", panel.name());
+        }
+    }
+
+    #[test]
+    fn panels_on_time_of_flight_grids_and_fields_without_values() {
+        // Time-of-flight axis: no diagonals, the panel's lines still drawn.
+        let mut g = analytic_grid(SecondAxis::TimeOfFlight);
+        for idx in 0..g.cells() {
+            g.depart_dir[idx] = [0.6, 0.0, 0.8];
+        }
+        let svg = render_panel_svg(&spec(&g), Panel::DvTotal, &Endpoints::bare()).expect("svg");
+        let lines = polylines(&svg);
+        assert_eq!(count(&lines, "tof"), 0);
+        assert!(count(&lines, "panel") >= 5);
+        // A flat DLA (53.13 deg everywhere) and an unknown arrival
+        // direction (NaN) give no lines, but still a chart.
+        for panel in [Panel::Dla, Panel::ArriveDec] {
+            let svg = render_panel_svg(&spec(&g), panel, &Endpoints::bare()).expect("svg");
+            assert_eq!(count(&polylines(&svg), "panel"), 0);
+            assert!(texts(&svg).iter().any(|t| t == panel.legend()));
+        }
+    }
+
+    /// Writes `/tmp/panel-<name>.png` for each panel from the synthetic and
+    /// the analytic grids, for a visual check:
+    /// `cargo test --release --lib write_panel_examples -- --ignored`.
+    #[test]
+    #[ignore]
+    fn write_panel_examples() {
+        let g = panel_grid();
+        for panel in Panel::ALL {
+            let png_bytes = render_panel_png(
+                &spec(&g),
+                panel,
+                &Endpoints::bare(),
+                DEFAULT_WIDTH_PX,
+                DEFAULT_HEIGHT_PX,
+            )
+            .expect("png");
+            std::fs::write(format!("/tmp/panel-{}.png", panel.name()), png_bytes).expect("write");
+            let svg = render_panel_svg(&spec(&g), panel, &Endpoints::bare()).expect("svg");
+            std::fs::write(format!("/tmp/panel-{}.svg", panel.name()), svg).expect("write");
+            let small =
+                render_panel_png(&spec(&g), panel, &Endpoints::bare(), 800, 600).expect("png");
+            std::fs::write(format!("/tmp/panel-{}-small.png", panel.name()), small).expect("write");
+        }
+    }
+
+    /// The main chart's SVG for the fixed specs kept under
+    /// `src/chart/testdata/`: `(file name, svg)`.
+    fn main_chart_fixtures() -> Vec<(&'static str, String)> {
+        let g = analytic_grid(SecondAxis::Arrival);
+        let a = render_svg(&spec(&g)).expect("svg");
+        let g = analytic_grid(SecondAxis::TimeOfFlight);
+        let t = render_svg(&spec(&g)).expect("svg");
+        let g = synthetic_grid(80);
+        let mut s = spec(&g);
+        s.c3_levels = None;
+        s.vinf_levels = None;
+        s.max_c3 = Some(20.0);
+        let y = render_svg(&s).expect("svg");
+        vec![
+            ("main-arrival.svg", a),
+            ("main-tof.svg", t),
+            ("main-synthetic.svg", y),
+        ]
+    }
+
+    /// The main transfer-window chart is byte-identical to the saved copies
+    /// (taken before the panels were added to the renderer).
+    #[test]
+    fn main_chart_matches_saved_svg() {
+        let saved = [
+            include_str!("testdata/main-arrival.svg"),
+            include_str!("testdata/main-tof.svg"),
+            include_str!("testdata/main-synthetic.svg"),
+        ];
+        for ((name, now), old) in main_chart_fixtures().iter().zip(saved) {
+            assert_eq!(now.len(), old.len(), "{name}: length changed");
+            assert!(now == old, "{name}: content changed");
+        }
+    }
+
+    /// Rewrites the saved copies (only when the main chart is meant to
+    /// change): `cargo test --release --lib write_main_fixtures -- --ignored`.
+    #[test]
+    #[ignore]
+    fn write_main_fixtures() {
+        let dir = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("src/chart/testdata");
+        std::fs::create_dir_all(&dir).expect("mkdir");
+        for (name, svg) in main_chart_fixtures() {
+            std::fs::write(dir.join(name), svg).expect("write");
+        }
     }
 
     /// Writes `/tmp/chart-example.png` and `.svg` from the synthetic grid
