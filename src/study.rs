@@ -39,6 +39,7 @@
 //!
 //! [chart]                               # contour levels (automatic if omitted)
 //! c3_levels = [8.0, 10.0, 12.0, 15.0, 20.0]
+//! show = ["dla", "arrive-dec"]          # extra panels: dla, arrive-dec, dv-total
 //!
 //! [outputs]                             # all true by default
 //! grid = true
@@ -96,6 +97,9 @@ pub struct ChartSection {
     /// Arrival v-infinity contour levels, km/s (automatic when omitted).
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub vinf_levels: Option<Vec<f64>>,
+    /// Extra panels, each its own chart: `dla`, `arrive-dec`, `dv-total`.
+    #[serde(default, skip_serializing_if = "Vec::is_empty")]
+    pub show: Vec<String>,
 }
 
 impl ChartSection {

@@ -91,6 +91,10 @@ pub struct ChartArgs {
     /// Shade the region with C3 at or below this ceiling (km^2/s^2).
     #[arg(long, value_name = "C3")]
     pub max_c3: Option<f64>,
+    /// Draw this panel instead of the main chart: dla, arrive-dec or
+    /// dv-total (total delta-v without parking or capture orbits).
+    #[arg(long, value_name = "NAME")]
+    pub show: Option<String>,
 }
 
 /// Arguments of `synodic run`.
@@ -227,6 +231,10 @@ pub struct SweepArgs {
     /// Shade the region with C3 at or below this ceiling (km^2/s^2).
     #[arg(long, value_name = "C3")]
     pub max_c3: Option<f64>,
+    /// Extra chart panels, each written as chart-NAME.svg/.png:
+    /// dla, arrive-dec, dv-total.
+    #[arg(long, value_name = "LIST", value_delimiter = ',')]
+    pub show: Vec<String>,
 }
 
 /// Arguments of `synodic lambert`.

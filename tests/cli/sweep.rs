@@ -178,6 +178,39 @@ fn charts_are_written_and_redrawn_from_saved_files() {
     );
 }
 
+/// Extra panels come out as their own charts, from a sweep or redrawn from
+/// the saved files; an unknown panel name is refused before any work.
+#[test]
+fn extra_panels_are_drawn() {
+    let d = Dir::new("panels");
+    d.run(&["sweep", "--quiet", "--show", "dla,arrive-dec,dv-total"])
+        .ok();
+    for name in ["dla", "arrive-dec", "dv-total"] {
+        let svg = std::fs::read_to_string(d.join(&format!("synodic-out/chart-{name}.svg")))
+            .expect("panel svg");
+        assert!(svg.matches("class=\"panel\"").count() >= 3, "{name}");
+        assert_eq!(svg.matches("class=\"c3\"").count(), 0, "{name}");
+        assert!(d.join(&format!("synodic-out/chart-{name}.png")).exists());
+    }
+    let dla = texts(&std::fs::read_to_string(d.join("synodic-out/chart-dla.svg")).expect("svg"));
+    assert!(dla.iter().any(|t| t.starts_with("DLA")), "{dla:?}");
+    d.run(&[
+        "chart",
+        "synodic-out",
+        "--show",
+        "arrive-dec",
+        "--out",
+        "redrawn.svg",
+    ])
+    .ok();
+    let redrawn = std::fs::read_to_string(d.join("redrawn.svg")).expect("redrawn");
+    assert!(redrawn.matches("class=\"panel\"").count() >= 3);
+    let e = Dir::new("panels-bad");
+    e.run(&["sweep", "--quiet", "--show", "rla"])
+        .bad_input(&["--show", "rla", "dla"]);
+    assert!(e.files("").is_empty());
+}
+
 /// The text content of every `<text>` element of an SVG.
 fn texts(svg: &str) -> Vec<String> {
     svg.split("</text>")

@@ -4,11 +4,13 @@ use std::path::{Path, PathBuf};
 
 use serde_json::Value;
 use synodic::chart::{
-    render_png, render_svg, ChartSpec, Marker, DEFAULT_HEIGHT_PX, DEFAULT_WIDTH_PX,
+    render_panel_png, render_panel_svg, render_png, render_svg, ChartSpec, Marker, Panel,
+    DEFAULT_HEIGHT_PX, DEFAULT_WIDTH_PX,
 };
 use synodic::export::{read_grid_csv, write_atomic};
 use synodic::sweep::{layers_for, Axis, SecondAxis};
 use synodic::time::{Epoch, J2000_JD};
+use synodic::transfer::Endpoints;
 
 use super::print;
 use crate::cli::args::ChartArgs;
@@ -125,18 +127,44 @@ pub fn run(args: &ChartArgs) -> CliResult<Outcome> {
         markers: markers(&args.dir, !dated),
         max_c3: args.max_c3,
     };
+    let panel = match &args.show {
+        Some(name) => Some(Panel::from_name(name).ok_or_else(|| {
+            format!("--show: unknown panel {name:?}; choose from dla, arrive-dec, dv-total")
+        })?),
+        None => None,
+    };
+    let stem = match &args.show {
+        Some(name) => format!("chart-{name}"),
+        None => "chart".to_string(),
+    };
     let targets: Vec<PathBuf> = match &args.out {
         Some(p) => vec![p.clone()],
-        None => vec![args.dir.join("chart.svg"), args.dir.join("chart.png")],
+        None => vec![
+            args.dir.join(format!("{stem}.svg")),
+            args.dir.join(format!("{stem}.png")),
+        ],
     };
+    // The saved files hold excess speeds, not the orbits: a delta-v panel
+    // redrawn here has no parking or capture burn.
+    let ends = Endpoints::bare();
     let mut said = String::new();
     for path in targets {
         match path.extension().and_then(|e| e.to_str()) {
-            Some("svg") => write_atomic(&path, render_svg(&spec)?.as_bytes())?,
-            Some("png") => write_atomic(
-                &path,
-                &render_png(&spec, DEFAULT_WIDTH_PX, DEFAULT_HEIGHT_PX)?,
-            )?,
+            Some("svg") => {
+                let svg = match panel {
+                    Some(p) => render_panel_svg(&spec, p, &ends)?,
+                    None => render_svg(&spec)?,
+                };
+                write_atomic(&path, svg.as_bytes())?
+            }
+            Some("png") => {
+                let (w, h) = (DEFAULT_WIDTH_PX, DEFAULT_HEIGHT_PX);
+                let png = match panel {
+                    Some(p) => render_panel_png(&spec, p, &ends, w, h)?,
+                    None => render_png(&spec, w, h)?,
+                };
+                write_atomic(&path, &png)?
+            }
             _ => {
                 return Err(format!("--out: {} must end in .svg or .png", path.display()).into());
             }

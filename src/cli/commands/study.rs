@@ -343,6 +343,15 @@ pub fn execute(
         }
         pairs.push((from, to));
     }
+    for name in &study.chart.show {
+        if synodic::chart::Panel::from_name(name).is_none() {
+            return Err(format!(
+                "{}: unknown chart panel {name:?}; choose from dla, arrive-dec, dv-total",
+                origin.at("chart", 0, "show", "--show")
+            )
+            .into());
+        }
+    }
     let mut outcome = Outcome::NothingFeasible;
     let mut prepared = Vec::new();
     for (k, &(from, to)) in pairs.iter().enumerate() {

@@ -7,7 +7,8 @@ use std::time::Instant;
 use indicatif::{ProgressBar, ProgressDrawTarget, ProgressStyle};
 use serde::Serialize;
 use synodic::chart::{
-    render_png, render_svg, ChartSpec, Marker, DEFAULT_HEIGHT_PX, DEFAULT_WIDTH_PX,
+    render_panel_png, render_panel_svg, render_png, render_svg, ChartSpec, Marker, Panel,
+    DEFAULT_HEIGHT_PX, DEFAULT_WIDTH_PX,
 };
 use synodic::ephemeris::System;
 use synodic::export::{ensure_dir, file_date, grid_csv, windows_csv, write_atomic, WindowRecord};
@@ -200,6 +201,7 @@ fn study_from_args(args: &SweepArgs) -> CliResult<Study> {
         chart: ChartSection {
             c3_levels: args.c3_levels.clone(),
             vinf_levels: args.vinf_levels.clone(),
+            show: args.show.clone(),
         },
         outputs,
     })
@@ -359,7 +361,30 @@ fn write_charts(
         &png,
         &render_png(&chart, DEFAULT_WIDTH_PX, DEFAULT_HEIGHT_PX)?,
     )?;
-    Ok(vec![svg, png])
+    let mut written = vec![svg, png];
+    for name in &study.chart.show {
+        let panel = Panel::from_name(name).ok_or_else(|| {
+            format!("unknown chart panel {name:?}; choose from dla, arrive-dec, dv-total")
+        })?;
+        let svg = out_dir.join(format!("chart-{name}.svg"));
+        write_atomic(
+            &svg,
+            render_panel_svg(&chart, panel, &spec.ends)?.as_bytes(),
+        )?;
+        let png = out_dir.join(format!("chart-{name}.png"));
+        write_atomic(
+            &png,
+            &render_panel_png(
+                &chart,
+                panel,
+                &spec.ends,
+                DEFAULT_WIDTH_PX,
+                DEFAULT_HEIGHT_PX,
+            )?,
+        )?;
+        written.extend([svg, png]);
+    }
+    Ok(written)
 }
 
 /// The grid's own optima, refined on the Lambert objective inside the
