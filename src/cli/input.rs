@@ -77,6 +77,11 @@ pub fn parse_epoch(text: &str, what: &str) -> CliResult<Epoch> {
     Epoch::parse(text).map_err(|e| format!("{what}: {e}").into())
 }
 
+/// The TDB calendar date (`YYYY-MM-DD`) of a day count past J2000 TDB.
+pub fn day_of(days_since_j2000_tdb: f64) -> String {
+    Epoch::from_days_since_j2000_tdb(days_since_j2000_tdb).date_tdb()
+}
+
 /// Find two distinct bodies of `system` by name.
 pub fn body_pair(system: &System, from: &str, to: &str) -> CliResult<(usize, usize)> {
     let a = system.find(from)?;

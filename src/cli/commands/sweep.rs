@@ -24,7 +24,7 @@ use synodic::windows::{optima_of_grid, Borders, Bounds, Optimum};
 
 use super::study::{execute, folder_of, save_study, Origin, PartResult, Provenance, RunFlags};
 use crate::cli::args::SweepArgs;
-use crate::cli::input::parse_number_span;
+use crate::cli::input::{day_of, parse_number_span};
 use crate::cli::{CliResult, Outcome};
 
 /// The demo study's default pair: two bodies of the built-in system whose
@@ -314,8 +314,8 @@ pub fn markers(optima: &[Optimum], kind: SecondAxis) -> Vec<Marker> {
                 o.kind,
                 if o.ridge { " (ridge)" } else { "" },
                 o.figures.c3_km2_s2,
-                &file_date(o.depart_days)[..10],
-                &file_date(o.arrive_days)[..10]
+                &day_of(o.depart_days),
+                &day_of(o.arrive_days)
             ),
         })
         .collect()
@@ -328,8 +328,8 @@ pub fn chart_titles(system: &System, from: usize, to: usize, grid: &Grid) -> (St
         format!(
             "{} · departures {} to {}",
             system.name,
-            &file_date(grid.depart.start_days)[..10],
-            &file_date(grid.depart.end_days())[..10]
+            &day_of(grid.depart.start_days),
+            &day_of(grid.depart.end_days())
         ),
     )
 }

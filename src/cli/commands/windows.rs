@@ -18,7 +18,7 @@ use synodic::windows::{scan, Bounds, OpportunityWindow, ScanOptions};
 use super::print;
 use super::study::{endpoints, folder_of, save_study, Origin, PartResult, Provenance, RunFlags};
 use crate::cli::args::WindowsArgs;
-use crate::cli::input::{body_pair, load_system, parse_number_span};
+use crate::cli::input::{body_pair, day_of, load_system, parse_number_span};
 use crate::cli::{CliResult, Outcome};
 
 /// Caution printed under every table.
@@ -254,8 +254,8 @@ fn overview(
         subtitle: format!(
             "{} · departures {} to {} · best {} per opportunity and Type; hollow = flagged",
             system.name,
-            &file_date(plan.span.0)[..10],
-            &file_date(plan.span.1)[..10],
+            &day_of(plan.span.0),
+            &day_of(plan.span.1),
             plan.options.objective.name()
         ),
         points,
@@ -468,7 +468,11 @@ pub fn table(
             &r.launch_last_date,
             r.launch_days_open,
         ) {
-            (Some(a), Some(b), Some(d)) => format!("{}..{} ({d:.1})", &a[5..10], &b[5..10]),
+            (Some(a), Some(b), Some(d)) => format!(
+                "{}..{} ({d:.1})",
+                a.get(5..10).unwrap_or(a),
+                b.get(5..10).unwrap_or(b)
+            ),
             _ if max_c3.is_some() => "closed".to_string(),
             _ => String::new(),
         };
