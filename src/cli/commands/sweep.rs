@@ -343,6 +343,15 @@ fn write_charts(
     optima: &[Optimum],
     out_dir: &Path,
 ) -> CliResult<Vec<PathBuf>> {
+    if grid.depart.count < 2 || grid.second.count < 2 {
+        // A contour chart needs a 2 x 2 grid at least; the other files
+        // still carry every figure.
+        eprintln!(
+            "synodic: note: no chart for a {} x {} grid (contours need at least 2 x 2)",
+            grid.depart.count, grid.second.count
+        );
+        return Ok(Vec::new());
+    }
     let (title, subtitle) = chart_titles(system, spec.from, spec.to, grid);
     let chart = ChartSpec {
         grid,

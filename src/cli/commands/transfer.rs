@@ -29,7 +29,7 @@ struct ArcOut {
     dv_depart_km_s: f64,
     dv_arrive_km_s: f64,
     dv_total_km_s: f64,
-    orbit: OrbitOut,
+    orbit: Option<OrbitOut>,
 }
 
 #[derive(Debug, Serialize)]
@@ -70,23 +70,24 @@ pub fn run(args: &TransferArgs) -> CliResult<Outcome> {
     let mu = system.central.mu_km3_s2;
     let mut out = Vec::with_capacity(arcs.len());
     for (fig, sol) in &arcs {
-        let conic = conic_from_state(
+        // A degenerate arc (e.g. rectilinear) has no classical elements;
+        // its other figures still stand.
+        let orbit = conic_from_state(
             &State {
                 r_km: r1,
                 v_km_s: sol.v1,
             },
             mu,
-        )?;
-        out.push(arc_out(
-            fig,
-            OrbitOut {
-                a_km: conic.a_km,
-                e: conic.e,
-                i_deg: conic.i_deg,
-                node_deg: conic.node_deg,
-                arg_peri_deg: conic.arg_peri_deg,
-            },
-        ));
+        )
+        .ok()
+        .map(|conic| OrbitOut {
+            a_km: conic.a_km,
+            e: conic.e,
+            i_deg: conic.i_deg,
+            node_deg: conic.node_deg,
+            arg_peri_deg: conic.arg_peri_deg,
+        });
+        out.push(arc_out(fig, orbit));
     }
     let report = Report {
         system: system.name.clone(),
@@ -108,7 +109,7 @@ pub fn run(args: &TransferArgs) -> CliResult<Outcome> {
     Ok(Outcome::Done)
 }
 
-fn arc_out(f: &Figures, orbit: OrbitOut) -> ArcOut {
+fn arc_out(f: &Figures, orbit: Option<OrbitOut>) -> ArcOut {
     ArcOut {
         revs: f.revs,
         branch: f.branch.to_string(),
@@ -126,6 +127,18 @@ fn arc_out(f: &Figures, orbit: OrbitOut) -> ArcOut {
         dv_arrive_km_s: f.dv_arrive_km_s,
         dv_total_km_s: f.dv_total_km_s,
         orbit,
+    }
+}
+
+fn orbit_line(o: Option<&OrbitOut>, first: bool) -> String {
+    match (o, first) {
+        (Some(o), true) => format!("a {:.6e} km  e {:.5}  i {:.4} deg", o.a_km, o.e, o.i_deg),
+        (Some(o), false) => format!(
+            "node {:.4} deg  arg. periapsis {:.4} deg",
+            o.node_deg, o.arg_peri_deg
+        ),
+        (None, true) => "undefined (degenerate arc)".to_string(),
+        (None, false) => String::new(),
     }
 }
 
@@ -151,20 +164,8 @@ fn table(r: &Report) -> String {
             ("delta-v depart", format!("{:.4} km/s", a.dv_depart_km_s)),
             ("delta-v arrive", format!("{:.4} km/s", a.dv_arrive_km_s)),
             ("delta-v total", format!("{:.4} km/s", a.dv_total_km_s)),
-            (
-                "transfer orbit",
-                format!(
-                    "a {:.6e} km  e {:.5}  i {:.4} deg",
-                    a.orbit.a_km, a.orbit.e, a.orbit.i_deg
-                ),
-            ),
-            (
-                "",
-                format!(
-                    "node {:.4} deg  arg. periapsis {:.4} deg",
-                    a.orbit.node_deg, a.orbit.arg_peri_deg
-                ),
-            ),
+            ("transfer orbit", orbit_line(a.orbit.as_ref(), true)),
+            ("", orbit_line(a.orbit.as_ref(), false)),
         ];
         for (k, v) in rows {
             let _ = writeln!(s, "  {k:<16} {v}");

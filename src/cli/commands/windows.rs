@@ -507,6 +507,13 @@ pub fn table(
             );
         }
     }
+    if rows.is_empty() {
+        let _ = writeln!(
+            s,
+            "(no opportunity in this span: its best departures all lie outside it; \
+             widen the span)"
+        );
+    }
     let _ = writeln!(
         s,
         "\nC3 km^2/s^2; v-infinity (out, in) and delta-v km/s; angles deg; dates TDB.\n\
