@@ -99,12 +99,7 @@ struct GridOut {
 pub fn run(args: &SweepArgs) -> CliResult<Outcome> {
     let study = study_from_args(args)?;
     let cwd = PathBuf::from(".");
-    if let Some(path) = &args.save_study {
-        let mut saved = study.clone();
-        saved.out = Some(relative_path_lossy(path, &args.out));
-        save_study(&saved, args.system.as_deref(), path)?;
-    }
-    execute(
+    let outcome = execute(
         &study,
         &Origin::Cli,
         &cwd,
@@ -114,7 +109,14 @@ pub fn run(args: &SweepArgs) -> CliResult<Outcome> {
             quiet: args.quiet,
             json: args.json,
         },
-    )
+    )?;
+    // Saved only once the run has succeeded (and its folder exists).
+    if let Some(path) = &args.save_study {
+        let mut saved = study.clone();
+        saved.out = Some(relative_path_lossy(path, &args.out));
+        save_study(&saved, args.system.as_deref(), path)?;
+    }
+    Ok(outcome)
 }
 
 /// The output folder as seen from the saved study's folder.
