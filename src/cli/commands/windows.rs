@@ -364,9 +364,6 @@ pub fn run(args: &WindowsArgs) -> CliResult<Outcome> {
         chart: Default::default(),
         outputs: Outputs::default(),
     };
-    if let Some(path) = &args.save_study {
-        save_study(&study, args.system.as_deref(), path)?;
-    }
     let system = load_system(args.system.as_deref())?;
     let (from, to) = body_pair(&system, &args.from, &args.to)?;
     let w = study
@@ -375,6 +372,10 @@ pub fn run(args: &WindowsArgs) -> CliResult<Outcome> {
         .ok_or("internal: no window section")?;
     let plan = scan_plan(w, &study, &system, from, to, &Origin::Cli)?;
     let rows = scan_rows(&system, from, to, &plan, &study, args.threads)?;
+    // Saved only once the scan has succeeded.
+    if let Some(path) = &args.save_study {
+        save_study(&study, args.system.as_deref(), path)?;
+    }
     if let Some(out) = &args.out {
         let records: Vec<WindowRecord> = rows.iter().map(|r| r.0.clone()).collect();
         write_atomic(out, &windows_csv(&records)?)?;
