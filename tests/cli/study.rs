@@ -177,3 +177,29 @@ fn study_errors_name_file_line_and_key() {
         .bad_input(&["step.toml:7", "sweep.step_days"]);
     assert!(!d.join("synodic-out").exists());
 }
+
+/// A saved window scan, run as a study, gives the same table as the
+/// command line did.
+#[test]
+fn a_saved_window_scan_reproduces_its_table() {
+    let d = Dir::new("save-windows");
+    d.run(&[
+        "windows",
+        "Teodra",
+        "Kesh",
+        "--span",
+        "2031-01-01..2036-01-01",
+        "--max-c3",
+        "15",
+        "--out",
+        "table.csv",
+        "--save-study",
+        "w.toml",
+    ])
+    .ok();
+    d.run(&["run", "w.toml", "--quiet", "--out", "again"]).ok();
+    let a = std::fs::read(d.join("table.csv")).expect("command-line table");
+    let b = std::fs::read(d.join("again/span-windows.csv")).expect("study table");
+    assert!(a == b, "tables differ");
+    assert!(String::from_utf8_lossy(&a).lines().count() >= 4);
+}
