@@ -113,20 +113,24 @@ fn tof_closed(x: f64, z: f64, lam: &Lambda, m: u32) -> Tof {
         y - lx
     };
     let sq = z.abs().sqrt();
+    // One division each for 1/z and 1/y: the hot loop of every sweep
+    // runs through here about twice per solve.
+    let inv_z = 1.0 / z;
+    let inv_y = 1.0 / y;
     let t = if z > 0.0 {
         let psi = (sq * y_m_lx).atan2(x * y + l * z);
-        ((psi + f64::from(m) * PI) / sq - x + l * y) / z
+        ((psi + f64::from(m) * PI) / sq - x + l * y) * inv_z
     } else {
         let psi = (sq * y_m_lx).asinh();
-        (psi / sq - x + l * y) / z
+        (psi / sq - x + l * y) * inv_z
     };
     let l2 = l * l;
     let l3 = l2 * l;
-    let y2 = y * y;
-    let y3 = y2 * y;
-    let d1 = (3.0 * t * x - 2.0 + 2.0 * l3 * x / y) / z;
-    let d2 = (3.0 * t + 5.0 * x * d1 + 2.0 * lam.one_m_l2 * l3 / y3) / z;
-    let d3 = (7.0 * x * d2 + 8.0 * d1 - 6.0 * lam.one_m_l2 * l3 * l2 * x / (y3 * y2)) / z;
+    let inv_y2 = inv_y * inv_y;
+    let inv_y3 = inv_y2 * inv_y;
+    let d1 = (3.0 * t * x - 2.0 + 2.0 * l3 * x * inv_y) * inv_z;
+    let d2 = (3.0 * t + 5.0 * x * d1 + 2.0 * lam.one_m_l2 * l3 * inv_y3) * inv_z;
+    let d3 = (7.0 * x * d2 + 8.0 * d1 - 6.0 * lam.one_m_l2 * l3 * l2 * x * inv_y3 * inv_y2) * inv_z;
     Tof { t, d1, d2, d3 }
 }
 
