@@ -301,7 +301,7 @@ impl Geometry {
                 if nn <= 0.0 || !nn.is_finite() {
                     return Err(LambertError::ZeroReferenceNormal);
                 }
-                n / nn
+                n * (1.0 / nn)
             }
             None => Vector3::z(),
         };
@@ -316,8 +316,8 @@ impl Geometry {
         if !(r1n.is_finite() && r2n.is_finite()) {
             return Err(LambertError::NotRepresentable { tof });
         }
-        let u1 = r1 / r1n;
-        let u2 = r2 / r2n;
+        let u1 = r1 * (1.0 / r1n);
+        let u2 = r2 * (1.0 / r2n);
         let cross = u1.cross(&u2);
         let sin_s = cross.norm();
         let cos_s = u1.dot(&u2);
@@ -409,11 +409,12 @@ impl Geometry {
             y + lx
         };
         let g = self.gamma;
-        let vr1 = g * ((ly - x) - self.rho * (ly + x)) / self.r1n;
-        let vr2 = -g * ((ly - x) + self.rho * (ly + x)) / self.r2n;
+        let (inv_r1, inv_r2) = (1.0 / self.r1n, 1.0 / self.r2n);
+        let vr1 = g * ((ly - x) - self.rho * (ly + x)) * inv_r1;
+        let vr2 = -g * ((ly - x) + self.rho * (ly + x)) * inv_r2;
         let vt = g * self.sigma * y_p_lx;
-        let v1 = self.u1 * vr1 + self.it1 * (vt / self.r1n);
-        let v2 = self.u2 * vr2 + self.it2 * (vt / self.r2n);
+        let v1 = self.u1 * vr1 + self.it1 * (vt * inv_r1);
+        let v2 = self.u2 * vr2 + self.it2 * (vt * inv_r2);
         if !(finite3(&v1) && finite3(&v2)) {
             return Err(LambertError::NotRepresentable { tof: self.tof });
         }
