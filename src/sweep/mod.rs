@@ -91,7 +91,8 @@ pub enum SweepError {
 /// Run options that do not change the result.
 #[derive(Debug, Clone, Copy, Default)]
 pub struct RunOptions {
-    /// Worker threads; `None` for one per core.
+    /// Worker threads; `None` runs on the caller's rayon pool (the global
+    /// one, one thread per core, unless the caller installed another).
     pub threads: Option<usize>,
     /// Refuse grids whose estimate exceeds this many bytes.
     pub memory_limit_bytes: Option<u128>,
@@ -136,14 +137,18 @@ where
             });
         }
     }
-    let mut builder = rayon::ThreadPoolBuilder::new();
-    if let Some(t) = opts.threads {
-        builder = builder.num_threads(t);
-    }
-    let pool = builder.build().map_err(|e| SweepError::Threads {
-        threads: opts.threads.unwrap_or(0),
-        message: e.to_string(),
-    })?;
+    let Some(threads) = opts.threads else {
+        // The caller's pool (rayon's global one by default): building a
+        // pool costs tens of milliseconds of thread start-up per sweep.
+        return Ok(sweep_in_pool(system, spec, &on_row));
+    };
+    let pool = rayon::ThreadPoolBuilder::new()
+        .num_threads(threads)
+        .build()
+        .map_err(|e| SweepError::Threads {
+            threads,
+            message: e.to_string(),
+        })?;
     Ok(pool.install(|| sweep_in_pool(system, spec, &on_row)))
 }
 
