@@ -61,7 +61,8 @@ impl TransferType {
 
 impl std::fmt::Display for TransferType {
     fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
-        f.write_str(self.as_str())
+        // `pad` honours width and alignment in tables.
+        f.pad(self.as_str())
     }
 }
 

@@ -90,7 +90,8 @@ pub enum Branch {
 
 impl std::fmt::Display for Branch {
     fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
-        f.write_str(match self {
+        // `pad` honours width and alignment in tables.
+        f.pad(match self {
             Branch::Single => "single",
             Branch::Left => "left",
             Branch::Right => "right",

@@ -294,10 +294,52 @@ pub fn run_grid(
     written.push(path);
     Ok(PartResult {
         written,
-        screen: screen(&summary, elapsed),
+        screen: screen(&summary, elapsed) + &refined_screen(&optima),
         json: json.trim_end().to_string(),
         feasible: summary.grid.ok > 0,
     })
+}
+
+/// The refined optima as printed under the grid minima.
+fn refined_screen(optima: &[Optimum]) -> String {
+    if optima.is_empty() {
+        return String::new();
+    }
+    let mut o =
+        String::from("Refined optima (minimum C3 on the Lambert solution itself, windows.csv)\n");
+    let _ = writeln!(
+        o,
+        "  {:<4} {:>4} {:<6} {:<16}  {:<16}  {:>8}  {:>9}  {:>7}  {:>7}  {:>9}  flags",
+        "type", "revs", "branch", "depart", "arrive", "tof (d)", "C3", "DLA", "RLA", "vinf in"
+    );
+    for opt in optima {
+        let f = &opt.figures;
+        let when = |d: f64| {
+            let t = synodic::export::table_date(d).replacen('T', " ", 1);
+            t.get(..16).unwrap_or(&t).to_string()
+        };
+        let flags: Vec<&str> = [(opt.ridge, "ridge"), (opt.edge, "edge")]
+            .into_iter()
+            .filter_map(|(on, name)| on.then_some(name))
+            .collect();
+        let _ = writeln!(
+            o,
+            "  {:<4} {:>4} {:<6} {:<16}  {:<16}  {:>8.2}  {:>9.4}  {:>7.2}  {:>7.2}  {:>9.4}  {}",
+            opt.kind.as_str(),
+            opt.layer.revs,
+            opt.layer.branch.to_string(),
+            when(opt.depart_days),
+            when(opt.arrive_days),
+            opt.arrive_days - opt.depart_days,
+            f.c3_km2_s2,
+            f.dla_deg,
+            f.rla_deg,
+            f.vinf_arrive_km_s,
+            flags.join(";")
+        );
+    }
+    o.push('\n');
+    o
 }
 
 /// Markers for the chart: the refined zero-revolution optima.
