@@ -678,7 +678,11 @@ mod tests {
         fn print_parse_round_trip(days in -110_000.0f64..110_000.0) {
             let t = Epoch::from_days_since_j2000_tdb(days);
             let back = Epoch::parse(&t.to_iso_tdb()).expect("printed epochs parse");
-            proptest::prop_assert!((back.days_since_j2000_tdb() - days).abs() <= 0.5 * MS_DAYS + 1e-11);
+            // Half a millisecond of printing, plus the spacing of f64 day
+            // counts near 1e5 days (about 1.5e-11 days, 1.3 us) for the
+            // arithmetic of the conversions.
+            let slack = 8.0 * f64::EPSILON * days.abs().max(1.0);
+            proptest::prop_assert!((back.days_since_j2000_tdb() - days).abs() <= 0.5 * MS_DAYS + slack);
         }
     }
 }
