@@ -347,6 +347,7 @@ pub(crate) fn t_min(lam: &Lambda, m: u32) -> Result<(f64, f64, u32), NoConvergen
     let (mut lo, mut hi) = (-1.0_f64, 1.0_f64);
     let mut x = 0.0_f64;
     let mut residual = f64::INFINITY;
+    let mut last_step = f64::INFINITY;
     for it in 1..=MULTI_REV_MAX_ITER {
         let v = tof(x, lam, m);
         residual = v.d1.abs();
@@ -358,13 +359,21 @@ pub(crate) fn t_min(lam: &Lambda, m: u32) -> Result<(f64, f64, u32), NoConvergen
         let den = 2.0 * v.d2 * v.d2 - v.d1 * v.d3;
         let xn = x - 2.0 * v.d1 * v.d2 / den;
         if xn > lo && xn < hi {
-            let step = xn - x;
+            let step = (xn - x).abs();
             x = xn;
-            if step.abs() < 1e-13 {
+            // Converged: below the tolerance, or at the rounding floor
+            // (Halley's steps shrink cubically until rounding in T'
+            // makes them stall; a small step that does not shrink means
+            // x is on the root to rounding).
+            if step < 1e-13 || (step < 1e-9 && step >= last_step) {
                 return Ok((x, tof(x, lam, m).t, it));
             }
+            last_step = step;
         } else {
-            if residual <= f64::EPSILON {
+            // A Halley step out of the bracket: bisect, unless T' is
+            // zero to rounding or the bracket is already below the
+            // tolerance (then x is the minimum to rounding).
+            if residual <= f64::EPSILON || hi - lo < 1e-13 {
                 return Ok((x, v.t, it));
             }
             x = 0.5 * (lo + hi);
