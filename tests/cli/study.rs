@@ -203,3 +203,23 @@ fn a_saved_window_scan_reproduces_its_table() {
     assert!(a == b, "tables differ");
     assert!(String::from_utf8_lossy(&a).lines().count() >= 4);
 }
+
+/// A bad system file named by a study: the message points at the study's
+/// `system` key and at the system file's own line and key.
+#[test]
+fn a_bad_system_file_is_named_through_the_study() {
+    let d = Dir::new("study-bad-system");
+    let demo = std::fs::read_to_string(concat!(
+        env!("CARGO_MANIFEST_DIR"),
+        "/ephemerides/demo.toml"
+    ))
+    .expect("demo system");
+    d.write("sys.toml", &demo.replacen("e = 0.005", "e = 1.5", 1));
+    d.write(
+        "s.toml",
+        "system = \"sys.toml\"\n[[pair]]\nfrom = \"Vell\"\nto = \"Teodra\"\n[sweep]\ntof_days = [100.0, 300.0]\n",
+    );
+    d.run(&["run", "s.toml"])
+        .bad_input(&["s.toml:1: key `system`", "sys.toml:", "key `e`"]);
+    assert_eq!(d.files(""), ["s.toml", "sys.toml"]);
+}

@@ -91,7 +91,8 @@ pub fn load_system(study: &Study, base_dir: &Path, origin: &Origin) -> CliResult
             path.display()
         )
     })?;
-    let system = System::load(&path)?;
+    let system = System::load(&path)
+        .map_err(|e| format!("{}: {e}", origin.at("", 0, "system", "--system")))?;
     Ok(LoadedSystem {
         system,
         sha256: sha256_hex(&bytes),
