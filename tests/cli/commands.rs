@@ -156,3 +156,20 @@ fn transfer_between_demo_bodies() {
         .ok();
     assert!(text.stdout.contains("C3"), "{}", text.stdout);
 }
+
+/// A quoted id spanning two lines does not shift the line numbers of
+/// later rows.
+#[test]
+fn batch_line_numbers_count_lines_inside_quoted_fields() {
+    let d = Dir::new("batch-quoted");
+    d.write(
+        "in.csv",
+        "id,mu,r1x,r1y,r1z,r2x,r2y,r2z,tof,revs,prograde\n\
+         \"two\nlines\",398600,5000,10000,2100,-14600,2500,7000,3600,0,1\n\
+         bad,398600,x,10000,2100,-14600,2500,7000,3600,0,1\n",
+    );
+    d.run(&["lambert", "--batch", "in.csv", "--out", "out.csv"])
+        .bad_input(&["in.csv: line 4:", "r1x"]);
+    let out = std::fs::read_to_string(d.join("out.csv")).expect("written");
+    assert!(out.contains("\"two\nlines\",0,single,"), "{out}");
+}

@@ -125,11 +125,12 @@ fn run_batch(input: &Path, out: Option<&Path>) -> CliResult<Outcome> {
     writer.write_record(BATCH_OUT)?;
     let mut bad_rows = 0usize;
     for (index, record) in reader.records().enumerate() {
-        let line = record
-            .as_ref()
-            .ok()
-            .and_then(|r| r.position().map(|p| p.line()))
-            .unwrap_or(index as u64 + 2);
+        // The reader's own position counts lines inside quoted fields.
+        let position = match &record {
+            Ok(r) => r.position().cloned(),
+            Err(e) => e.position().cloned(),
+        };
+        let line = position.map_or(index as u64 + 2, |p| p.line());
         let parsed = record
             .map_err(|e| e.to_string())
             .and_then(|r| parse_batch_row(&r));
