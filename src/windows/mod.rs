@@ -292,12 +292,12 @@ pub fn optima_of_grid(
             let value = |o: &Option<Optimum>| o.map_or(f64::INFINITY, |o| o.value);
             // The interior optimum always; a minimum on a search limit only
             // where the field keeps falling past it (lower than the rest);
-            // a ridge minimum only where it undercuts the interior one.
+            // a ridge minimum only where it undercuts both.
             out.extend(interior);
             if value(&edge) < value(&interior).min(value(&ridge)) {
                 out.extend(edge);
             }
-            if value(&ridge) < value(&interior) {
+            if value(&ridge) < value(&interior).min(value(&edge)) {
                 out.extend(ridge);
             }
         }

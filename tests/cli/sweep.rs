@@ -62,7 +62,13 @@ fn thread_count_does_not_change_a_byte() {
     two.extend(["--threads", "2", "--out", "two"]);
     d.run(&one).ok();
     d.run(&two).ok();
-    for f in ["grid.csv", "summary.json"] {
+    for f in [
+        "grid.csv",
+        "summary.json",
+        "chart.svg",
+        "chart-1rev-left.svg",
+        "chart-1rev-right.svg",
+    ] {
         let a = std::fs::read(d.join(&format!("one/{f}"))).expect("one");
         let b = std::fs::read(d.join(&format!("two/{f}"))).expect("two");
         assert!(a == b, "{f} differs between --threads 1 and 2");

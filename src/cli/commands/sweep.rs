@@ -16,7 +16,7 @@ use synodic::study::{
     relative_path, ChartSection, Limits, Orbits, Outputs, Pair, Study, SweepSection,
 };
 use synodic::sweep::{
-    grid_minima, sweep, Axis, CellStatus, Grid, Objective, RunOptions, SecondAxis, SweepSpec,
+    grid_minima, sweep, Axis, CellStatus, Grid, Layer, Objective, RunOptions, SecondAxis, SweepSpec,
 };
 use synodic::time::J2000_JD;
 use synodic::transfer::Leg;
@@ -342,11 +342,11 @@ fn refined_screen(optima: &[Optimum]) -> String {
     o
 }
 
-/// Markers for the chart: the refined zero-revolution optima.
-pub fn markers(optima: &[Optimum], kind: SecondAxis) -> Vec<Marker> {
+/// Markers for the chart of `layer`: its refined optima.
+pub fn markers(optima: &[Optimum], kind: SecondAxis, layer: Layer) -> Vec<Marker> {
     optima
         .iter()
-        .filter(|o| o.layer.revs == 0)
+        .filter(|o| o.layer == layer)
         .map(|o| Marker {
             depart_days: o.depart_days,
             second: match kind {
@@ -404,7 +404,7 @@ fn write_charts(
         subtitle,
         c3_levels: study.chart.c3_levels.clone(),
         vinf_levels: study.chart.vinf_levels.clone(),
-        markers: markers(optima, spec.second_kind),
+        markers: markers(optima, spec.second_kind, grid.layers[0]),
         max_c3: study.limits.max_c3_km2_s2,
     };
     let svg = out_dir.join("chart.svg");
@@ -434,6 +434,31 @@ fn write_charts(
                 DEFAULT_WIDTH_PX,
                 DEFAULT_HEIGHT_PX,
             )?,
+        )?;
+        written.extend([svg, png]);
+    }
+    // One chart per multi-revolution layer that solved anywhere.
+    for (l, layer) in grid.layers.iter().enumerate().skip(1) {
+        let solved = (0..grid.cells()).any(|c| grid.status[c * grid.layers.len() + l] == 0);
+        if !solved {
+            continue;
+        }
+        let layer_chart = ChartSpec {
+            layer: l,
+            title: format!(
+                "{} ({} rev, {} branch)",
+                chart.title, layer.revs, layer.branch
+            ),
+            markers: markers(optima, spec.second_kind, *layer),
+            ..chart.clone()
+        };
+        let stem = format!("chart-{}rev-{}", layer.revs, layer.branch);
+        let svg = out_dir.join(format!("{stem}.svg"));
+        write_atomic(&svg, render_svg(&layer_chart)?.as_bytes())?;
+        let png = out_dir.join(format!("{stem}.png"));
+        write_atomic(
+            &png,
+            &render_png(&layer_chart, DEFAULT_WIDTH_PX, DEFAULT_HEIGHT_PX)?,
         )?;
         written.extend([svg, png]);
     }
