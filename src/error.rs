@@ -63,3 +63,13 @@ pub enum Error {
 
 /// `Result` with synodic's [`Error`].
 pub type Result<T, E = Error> = std::result::Result<T, E>;
+
+/// 1-based line number of byte `offset` in `text`, for messages that name
+/// the line of a file (system files, study files).
+pub fn line_of_offset(text: &str, offset: usize) -> usize {
+    text.as_bytes()[..offset.min(text.len())]
+        .iter()
+        .filter(|&&b| b == b'\n')
+        .count()
+        + 1
+}

@@ -51,6 +51,8 @@ use std::path::{Path, PathBuf};
 
 use serde::{Deserialize, Serialize};
 
+use crate::error::line_of_offset;
+
 /// A study as written in a file (or resolved from a command line).
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
@@ -336,15 +338,6 @@ impl Study {
              # and rewrites the files beside it byte for byte.\n{body}"
         )
     }
-}
-
-/// 1-based line number of byte `offset` in `text`.
-pub fn line_of_offset(text: &str, offset: usize) -> usize {
-    text.as_bytes()[..offset.min(text.len())]
-        .iter()
-        .filter(|&&b| b == b'\n')
-        .count()
-        + 1
 }
 
 /// The dotted key whose value holds byte `offset`: the name left of the

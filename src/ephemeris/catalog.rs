@@ -215,12 +215,7 @@ struct Locator<'a> {
 impl Locator<'_> {
     /// The 1-based line containing byte `offset`.
     fn line(&self, offset: usize) -> usize {
-        let end = offset.min(self.text.len());
-        self.text.as_bytes()[..end]
-            .iter()
-            .filter(|&&b| b == b'\n')
-            .count()
-            + 1
+        crate::error::line_of_offset(self.text, offset)
     }
 
     /// The trimmed text of the line containing byte `offset`.

@@ -264,6 +264,18 @@ fn finite3(v: &Vector3<f64>) -> bool {
 }
 
 impl Geometry {
+    /// The geometry of a [`LambertProblem`] (see [`Geometry::new`]).
+    fn of_problem(p: &LambertProblem) -> Result<Self, LambertError> {
+        Geometry::new(
+            &p.r1,
+            &p.r2,
+            p.tof,
+            p.mu,
+            p.direction,
+            p.reference_normal.as_ref(),
+        )
+    }
+
     #[inline]
     fn new(
         r1: &Vector3<f64>,
@@ -508,19 +520,26 @@ pub fn solve_zero_rev(
 /// minimum time of flight) when `p.tof` is below the minimum for `revs`.
 /// `p.max_revs` is ignored.
 pub fn solve_revs(p: &LambertProblem, revs: u32) -> Result<Vec<LambertSolution>, LambertError> {
-    let g = Geometry::new(
-        &p.r1,
-        &p.r2,
-        p.tof,
-        p.mu,
-        p.direction,
-        p.reference_normal.as_ref(),
-    )?;
+    let g = Geometry::of_problem(p)?;
     if revs == 0 {
         Ok(vec![g.zero_rev(izzo::ZERO_REV_TOL)?])
     } else {
         Ok(g.multi_rev(revs)?.to_vec())
     }
+}
+
+/// For each `M` in `1..=p.max_revs`, what [`solve_revs`] gives for `M`
+/// (both branches, or why not), from one shared geometry: the grid sweep's
+/// path for multi-revolution layers.
+///
+/// # Errors
+/// The outer error is input validation (as [`solve_zero_rev`]), which
+/// every `M` would share.
+pub fn solve_each_rev(
+    p: &LambertProblem,
+) -> Result<Vec<Result<[LambertSolution; 2], LambertError>>, LambertError> {
+    let g = Geometry::of_problem(p)?;
+    Ok((1..=p.max_revs).map(|m| g.multi_rev(m)).collect())
 }
 
 /// All solutions with `0..=p.max_revs` complete revolutions.
@@ -540,14 +559,7 @@ pub fn solve_revs(p: &LambertProblem, revs: u32) -> Result<Vec<LambertSolution>,
 /// As [`solve_zero_rev`] (input validation and the zero-revolution
 /// solve); [`LambertError::NotConverged`] from any branch.
 pub fn solve(p: &LambertProblem) -> Result<Vec<LambertSolution>, LambertError> {
-    let g = Geometry::new(
-        &p.r1,
-        &p.r2,
-        p.tof,
-        p.mu,
-        p.direction,
-        p.reference_normal.as_ref(),
-    )?;
+    let g = Geometry::of_problem(p)?;
     let mut out = Vec::with_capacity(1 + 2 * p.max_revs.min(8) as usize);
     out.push(g.zero_rev(izzo::ZERO_REV_TOL)?);
     for m in 1..=p.max_revs {

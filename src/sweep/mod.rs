@@ -358,12 +358,19 @@ impl RowContext<'_> {
                 max_revs: spec.max_revs,
                 reference_normal: Some(normal),
             };
-            for m in 1..=spec.max_revs {
+            let per_rev = match lambert::solve_each_rev(&problem) {
+                Ok(per_rev) => per_rev,
+                Err(e) => {
+                    for l in 1..self.n_layers {
+                        row.fail(base + l, status_of(&e));
+                    }
+                    continue;
+                }
+            };
+            for (m, result) in (1..=spec.max_revs).zip(per_rev) {
                 let l_left = base + 2 * m as usize - 1;
-                match lambert::solve_revs(&problem, m) {
+                match result {
                     Ok(sols) => {
-                        row.fail(l_left, CellStatus::NoSolution);
-                        row.fail(l_left + 1, CellStatus::NoSolution);
                         for sol in &sols {
                             let k = layer_slot(l_left, sol);
                             row.put(
