@@ -1,0 +1,569 @@
+//! End-to-end checks of the rendered charts on the analytic sample grids
+//! ([`super::samples`]): where lines lie follows from the grids' closed
+//! forms, and the golden SVGs catch any unintended change of bytes.
+
+use super::levels::format_level;
+use super::render::{
+    layout, Map, C3_RGB, CAPTION, INK, MARKER_RGB, MASK_RGB, PANEL_RGB, PAPER, RIDGE_RGB,
+    SHADE_RGB, VINF_RGB,
+};
+use super::samples::{
+    analytic_centre_days as dc, analytic_grid, analytic_spec as spec, golden_charts, panel_grid,
+    synthetic_grid,
+};
+use super::{
+    render_panel_png, render_panel_svg, render_png, render_svg, ChartError, Panel,
+    DEFAULT_HEIGHT_PX, DEFAULT_WIDTH_PX,
+};
+use crate::sweep::SecondAxis;
+use crate::transfer::Endpoints;
+use plotters::style::RGBColor;
+
+/// `(class, points)` of every polyline.
+fn polylines(svg: &str) -> Vec<(String, Vec<(f64, f64)>)> {
+    let attr = |tag: &str, name: &str| -> Option<String> {
+        let key = format!(" {name}=\"");
+        let a = tag.find(&key)? + key.len();
+        let b = tag[a..].find('"')? + a;
+        Some(tag[a..b].to_string())
+    };
+    svg.lines()
+        .filter(|l| l.starts_with("<polyline"))
+        .map(|l| {
+            let class = attr(l, "class").unwrap_or_default();
+            let pts = attr(l, "points")
+                .unwrap_or_default()
+                .split_whitespace()
+                .filter_map(|p| {
+                    let (x, y) = p.split_once(',')?;
+                    Some((x.parse().ok()?, y.parse().ok()?))
+                })
+                .collect();
+            (class, pts)
+        })
+        .collect()
+}
+
+/// Contents of every `<text>` element, trimmed.
+fn texts(svg: &str) -> Vec<String> {
+    let mut out = Vec::new();
+    let mut rest = svg;
+    while let Some(a) = rest.find("<text") {
+        let Some(open_end) = rest[a..].find('>') else {
+            break;
+        };
+        let body = a + open_end + 1;
+        let Some(close) = rest[body..].find("</text>") else {
+            break;
+        };
+        out.push(rest[body..body + close].trim().to_string());
+        rest = &rest[body + close..];
+    }
+    out
+}
+
+fn count(lines: &[(String, Vec<(f64, f64)>)], class: &str) -> usize {
+    lines.iter().filter(|(c, _)| c == class).count()
+}
+
+#[test]
+fn svg_is_balanced_and_sized() {
+    let g = analytic_grid(SecondAxis::Arrival);
+    let svg = render_svg(&spec(&g)).expect("svg");
+    assert!(svg.starts_with("<svg"));
+    assert!(svg.contains("width=\"1800\" height=\"1350\""));
+    assert!(svg.contains("viewBox=\"0 0 3600 2700\""));
+    assert!(svg.trim_end().ends_with("</svg>"));
+    // Balanced: every opened element is closed, in order.
+    let mut stack: Vec<String> = Vec::new();
+    let mut rest = svg.as_str();
+    while let Some(a) = rest.find('<') {
+        let b = rest[a..].find('>').expect("tag ends") + a;
+        let tag = &rest[a + 1..b];
+        if let Some(name) = tag.strip_prefix('/') {
+            assert_eq!(stack.pop().as_deref(), Some(name), "close {name}");
+        } else if !tag.ends_with('/') {
+            stack.push(tag.split_whitespace().next().expect("name").to_string());
+        }
+        rest = &rest[b + 1..];
+    }
+    assert!(stack.is_empty(), "unclosed {stack:?}");
+    // Text is text, in the sans-serif family.
+    assert!(svg.contains("font-family=\"sans-serif\""));
+}
+
+#[test]
+fn svg_holds_one_line_per_level_and_their_labels() {
+    let g = analytic_grid(SecondAxis::Arrival);
+    let svg = render_svg(&spec(&g)).expect("svg");
+    let lines = polylines(&svg);
+    // Each C3 and v-infinity level is one ring or arc on this grid.
+    assert_eq!(count(&lines, "c3"), 3);
+    assert_eq!(count(&lines, "vinf"), 2);
+    // The C3 limit line (C3 = 25) and the 180-degree line, cut in two
+    // by the blank block.
+    assert_eq!(count(&lines, "c3max"), 1);
+    assert_eq!(count(&lines, "ridge"), 2);
+    assert!(count(&lines, "tof") >= 3);
+    // v-infinity lines are dashed, C3 lines are not.
+    assert!(svg.contains("class=\"vinf\" fill=\"none\" opacity=\"1\" stroke-dasharray="));
+    assert!(!svg.contains("class=\"c3\" fill=\"none\" opacity=\"1\" stroke-dasharray="));
+    let t = texts(&svg);
+    for label in ["10", "20", "30", "3.5", "4.5", "Type I", "Type II"] {
+        assert!(t.iter().any(|x| x == label), "label {label} missing: {t:?}");
+    }
+    assert!(t.iter().any(|x| x.ends_with(" d")), "time-of-flight label");
+    assert!(t.contains(&"C3 5.00 · 2031-07-20 → 2032-04-05".to_string()));
+    assert!(t.contains(&"Teodra → Kesh, 2031 opportunity".to_string()));
+    assert!(t.contains(&CAPTION.to_string()));
+    assert!(t.contains(&"Departure date (TDB)".to_string()));
+    assert!(t.contains(&"Arrival date (TDB)".to_string()));
+    assert!(t.contains(&"C3 ≤ 25 km²/s²".to_string()));
+    assert!(t.iter().any(|x| x == "25"), "limit line labelled");
+    // Date ticks on both axes.
+    for d in ["2031-01-01", "2031-07-01", "2032-01-01"] {
+        assert!(t.iter().any(|x| x == d), "tick {d} missing");
+    }
+    assert!(t.iter().any(|x| x == "2032-07-01"), "arrival tick");
+}
+
+#[test]
+fn ridge_follows_the_180_degree_crossing_only() {
+    let g = analytic_grid(SecondAxis::Arrival);
+    let svg = render_svg(&spec(&g)).expect("svg");
+    let lay = layout(DEFAULT_WIDTH_PX, DEFAULT_HEIGHT_PX);
+    let map = Map {
+        xmin: g.depart.start_days,
+        xmax: g.depart.end_days(),
+        ymin: g.second.start_days,
+        ymax: g.second.end_days(),
+        plot: lay.plot,
+    };
+    let mut n = 0;
+    for (class, pts) in polylines(&svg) {
+        if class != "ridge" {
+            continue;
+        }
+        for (x, y) in pts {
+            let tof = map.data_y(y / 2.0) - map.data_x(x / 2.0);
+            // Not at the wrap (tof = 550): at tof = 250, within a pixel
+            // (about 0.6 days) and the grid step.
+            assert!((tof - 250.0).abs() < 4.0, "ridge at tof {tof}");
+            n += 1;
+        }
+    }
+    assert!(n > 10);
+}
+
+#[test]
+fn blank_cells_carry_no_lines() {
+    let g = analytic_grid(SecondAxis::Arrival);
+    let svg = render_svg(&spec(&g)).expect("svg");
+    let lay = layout(DEFAULT_WIDTH_PX, DEFAULT_HEIGHT_PX);
+    let map = Map {
+        xmin: g.depart.start_days,
+        xmax: g.depart.end_days(),
+        ymin: g.second.start_days,
+        ymax: g.second.end_days(),
+        plot: lay.plot,
+    };
+    let mut near_block = 0;
+    for (class, pts) in polylines(&svg) {
+        if !["c3", "vinf", "ridge", "c3max"].contains(&class.as_str()) {
+            continue;
+        }
+        for (x, y) in pts {
+            let d = map.data_x(x / 2.0) - dc();
+            let tof = map.data_y(y / 2.0) - map.data_x(x / 2.0);
+            // Inside the block by more than a cell (2 days across,
+            // 3 days up, so up to 5 days in time of flight).
+            let inside = d > 30.0 + 3.0 && d < 50.0 - 3.0 && tof > 240.0 + 6.0 && tof < 280.0 - 6.0;
+            assert!(
+                !inside,
+                "{class} line inside the blank block at d {d}, tof {tof}"
+            );
+            assert!(
+                tof > 80.0 - 6.0,
+                "{class} line in the blank corner, tof {tof}"
+            );
+            if (d - 30.0).abs() < 4.0 && tof > 240.0 && tof < 280.0 {
+                near_block += 1;
+            }
+        }
+    }
+    assert!(near_block > 0, "lines reach the block's edge");
+}
+
+#[test]
+fn a_c3_level_at_the_limit_is_drawn_once() {
+    let g = analytic_grid(SecondAxis::Arrival);
+    let mut s = spec(&g);
+    s.max_c3 = Some(20.0);
+    let lines = polylines(&render_svg(&s).expect("svg"));
+    assert_eq!(count(&lines, "c3"), 2);
+    assert_eq!(count(&lines, "c3max"), 1);
+    s.max_c3 = None;
+    let svg = render_svg(&s).expect("svg");
+    let lines = polylines(&svg);
+    assert_eq!(count(&lines, "c3"), 3);
+    assert_eq!(count(&lines, "c3max"), 0);
+    assert!(!texts(&svg).iter().any(|t| t.starts_with("C3 ≤")));
+}
+
+#[test]
+fn time_of_flight_charts_have_no_diagonals() {
+    let g = analytic_grid(SecondAxis::TimeOfFlight);
+    let svg = render_svg(&spec(&g)).expect("svg");
+    let lines = polylines(&svg);
+    assert_eq!(count(&lines, "tof"), 0);
+    assert_eq!(count(&lines, "c3"), 3);
+    let t = texts(&svg);
+    assert!(t.contains(&"Time of flight, days".to_string()));
+    assert!(t.iter().any(|x| x == "300"), "tof ticks: {t:?}");
+}
+
+#[test]
+fn automatic_levels_are_drawn_and_labelled() {
+    let g = synthetic_grid(120);
+    let mut s = spec(&g);
+    s.c3_levels = None;
+    s.vinf_levels = None;
+    s.markers.clear();
+    let svg = render_svg(&s).expect("svg");
+    let lines = polylines(&svg);
+    let c3: Vec<f64> = crate::chart::levels::c3_levels(
+        (0..g.cells())
+            .filter(|&i| g.status[i] == 0)
+            .map(|i| g.c3_km2_s2(i)),
+    );
+    assert!(count(&lines, "c3") >= c3.len() / 2);
+    let t = texts(&svg);
+    let labelled = c3.iter().filter(|l| t.contains(&format_level(**l))).count();
+    assert!(
+        labelled * 2 >= c3.len(),
+        "{labelled} of {} levels labelled",
+        c3.len()
+    );
+}
+
+#[test]
+fn bad_requests_are_errors() {
+    let g = analytic_grid(SecondAxis::Arrival);
+    let mut s = spec(&g);
+    assert!(matches!(
+        render_png(&s, 100, 1350),
+        Err(ChartError::ImageSize { .. })
+    ));
+    s.layer = 3;
+    assert_eq!(
+        render_svg(&s).expect_err("no layer 3"),
+        ChartError::NoSuchLayer {
+            layer: 3,
+            layers: 1
+        }
+    );
+}
+
+/// `(width, height, RGB bytes)` of a PNG.
+fn decode(png_bytes: &[u8]) -> (u32, u32, Vec<u8>) {
+    let dec = png::Decoder::new(std::io::Cursor::new(png_bytes));
+    let mut reader = dec.read_info().expect("png header");
+    let mut buf = vec![0u8; reader.output_buffer_size().expect("size")];
+    let info = reader.next_frame(&mut buf).expect("png frame");
+    assert_eq!(info.color_type, png::ColorType::Rgb);
+    buf.truncate(info.buffer_size());
+    (info.width, info.height, buf)
+}
+
+#[test]
+fn png_decodes_at_the_requested_size_and_is_not_blank() {
+    let g = analytic_grid(SecondAxis::Arrival);
+    for (w, h) in [(DEFAULT_WIDTH_PX, DEFAULT_HEIGHT_PX), (640, 480)] {
+        let bytes = render_png(&spec(&g), w, h).expect("png");
+        let (pw, ph, rgb) = decode(&bytes);
+        assert_eq!((pw, ph), (w, h));
+        let mut colours = std::collections::HashSet::new();
+        for p in rgb.chunks_exact(3) {
+            colours.insert((p[0], p[1], p[2]));
+        }
+        assert!(colours.len() > 50, "only {} colours", colours.len());
+        let has = |c: RGBColor| {
+            rgb.chunks_exact(3).any(|p| {
+                (i32::from(p[0]) - i32::from(c.0)).abs() <= 2
+                    && (i32::from(p[1]) - i32::from(c.1)).abs() <= 2
+                    && (i32::from(p[2]) - i32::from(c.2)).abs() <= 2
+            })
+        };
+        // Fills at every size; thin lines keep their pure colour only
+        // where they are wide enough (the default size).
+        for c in [MASK_RGB, SHADE_RGB, MARKER_RGB, PAPER] {
+            assert!(has(c), "colour {c:?} missing at {w} x {h}");
+        }
+        if w == DEFAULT_WIDTH_PX {
+            for c in [C3_RGB, VINF_RGB, RIDGE_RGB, INK] {
+                assert!(has(c), "colour {c:?} missing at {w} x {h}");
+            }
+        }
+    }
+}
+
+/// What every panel shares: the frame, no C3 or v-infinity family, no
+/// C3 limit, the panel's legend and title.
+fn check_panel_frame(svg: &str, panel: Panel) -> Vec<(String, Vec<(f64, f64)>)> {
+    let lines = polylines(svg);
+    for class in ["c3", "vinf", "c3max"] {
+        assert_eq!(count(&lines, class), 0, "{class} lines on a panel");
+    }
+    assert!(!svg.contains("class=\"c3\""));
+    assert!(!svg.contains("class=\"vinf\""));
+    assert_eq!(count(&lines, "ridge"), 2);
+    assert!(count(&lines, "tof") >= 3);
+    // Solid lines of their own colour.
+    assert!(svg.contains("class=\"panel\" fill=\"none\" opacity=\"1\" stroke=\"#007D8A\""));
+    let t = texts(svg);
+    for want in [
+        panel.legend(),
+        "Type I",
+        "Type II",
+        "C3 5.00 · 2031-07-20 → 2032-04-05",
+        "Departure date (TDB)",
+        "Arrival date (TDB)",
+        "No solution",
+        CAPTION,
+    ] {
+        assert!(t.iter().any(|x| x == want), "{want} missing: {t:?}");
+    }
+    let title = format!("Teodra → Kesh, 2031 opportunity — {}", panel.title_suffix());
+    assert!(t.contains(&title), "{title} missing");
+    for gone in ["Departure C3, km²/s²", "Arrival v∞, km/s", "C3 ≤ 25 km²/s²"] {
+        assert!(!t.iter().any(|x| x == gone), "{gone} on a panel");
+    }
+    lines
+}
+
+#[test]
+fn dla_panel_draws_one_labelled_family() {
+    let g = panel_grid();
+    let svg = render_panel_svg(&spec(&g), Panel::Dla, &Endpoints::bare()).expect("svg");
+    let lines = check_panel_frame(&svg, Panel::Dla);
+    // DLA spans -47..47 deg: lines every 10 deg from -40 to 40, each a
+    // vertical line; the 10-degree line is cut in two by the blank
+    // block (DLA 7.3..12 deg there).
+    assert_eq!(count(&lines, "panel"), 10);
+    let t = texts(&svg);
+    for l in [-40, -30, -20, -10, 0, 10, 20, 30, 40] {
+        let label = format!("{l}°");
+        assert!(t.contains(&label), "label {label} missing: {t:?}");
+    }
+    assert!(!t.iter().any(|x| x == "50°" || x == "-50°"));
+    // Vertical: every point of a line sits at the departure date of
+    // its level.
+    let lay = layout(DEFAULT_WIDTH_PX, DEFAULT_HEIGHT_PX);
+    let d0 = g.depart.start_days;
+    let map = Map {
+        xmin: d0,
+        xmax: g.depart.end_days(),
+        ymin: g.second.start_days,
+        ymax: g.second.end_days(),
+        plot: lay.plot,
+    };
+    for (class, pts) in &lines {
+        if class != "panel" {
+            continue;
+        }
+        let dla: Vec<f64> = pts
+            .iter()
+            .map(|p| -47.0 + 94.0 * (map.data_x(p.0 / 2.0) - d0) / 398.0)
+            .collect();
+        let level = (dla[0] / 10.0).round() * 10.0;
+        assert!(dla.iter().all(|v| (v - level).abs() < 0.3), "{dla:?}");
+    }
+}
+
+#[test]
+fn arrival_declination_panel_draws_one_labelled_family() {
+    let g = panel_grid();
+    let svg = render_panel_svg(&spec(&g), Panel::ArriveDec, &Endpoints::bare()).expect("svg");
+    let lines = check_panel_frame(&svg, Panel::ArriveDec);
+    // -25..25 deg: every 5 deg from -20 to 20, horizontal lines; the
+    // 10-degree line is cut in two by the blank block.
+    assert_eq!(count(&lines, "panel"), 10);
+    let t = texts(&svg);
+    for l in [-20, -15, -10, -5, 0, 5, 10, 15, 20] {
+        let label = format!("{l}°");
+        assert!(t.contains(&label), "label {label} missing: {t:?}");
+    }
+}
+
+#[test]
+fn total_dv_panel_is_denser_near_the_minimum() {
+    let g = panel_grid();
+    let svg = render_panel_svg(&spec(&g), Panel::DvTotal, &Endpoints::bare()).expect("svg");
+    let lines = check_panel_frame(&svg, Panel::DvTotal);
+    // Without burns to count, total delta-v is the departure excess
+    // speed sqrt(C3): a bowl from sqrt(5) = 2.24 km/s.
+    // Levels start just above it with 0.2 km/s steps and widen.
+    let levels = [2.4, 2.6, 3.0, 3.5, 4.0, 5.0, 6.0, 8.0];
+    let t = texts(&svg);
+    for l in levels {
+        assert!(t.contains(&format_level(l)), "label {l} missing: {t:?}");
+    }
+    for absent in ["2.2", "2.8", "4.5", "7", "10"] {
+        assert!(!t.iter().any(|x| x == absent), "{absent} drawn: {t:?}");
+    }
+    assert!(!t.iter().any(|x| x.ends_with('°')), "no degrees");
+    // One ring per level (the 3 and 3.5 rings run through the blank
+    // block and come out as one arc each).
+    assert_eq!(count(&lines, "panel"), levels.len());
+}
+
+#[test]
+fn total_dv_panel_counts_the_burns() {
+    let g = panel_grid();
+    let bare = render_panel_svg(&spec(&g), Panel::DvTotal, &Endpoints::bare()).expect("svg");
+    let ends = Endpoints {
+        parking: Some(crate::transfer::ParkingOrbit {
+            mu_km3_s2: 398_600.0,
+            radius_km: 6_578.0,
+        }),
+        ..Endpoints::bare()
+    };
+    let burn = render_panel_svg(&spec(&g), Panel::DvTotal, &ends).expect("svg");
+    assert_ne!(bare, burn);
+    // Injection from a low orbit: the minimum is about 3.6 km/s.
+    let t = texts(&burn);
+    assert!(!t.iter().any(|x| x == "2.4"), "{t:?}");
+    assert!(count(&polylines(&burn), "panel") >= 5);
+}
+
+#[test]
+fn panels_leave_the_main_chart_alone_and_render_as_png() {
+    let g = panel_grid();
+    let before = render_svg(&spec(&g)).expect("svg");
+    for panel in Panel::ALL {
+        let bytes = render_panel_png(&spec(&g), panel, &Endpoints::bare(), 900, 675).expect("png");
+        let (w, h, rgb) = decode(&bytes);
+        assert_eq!((w, h), (900, 675));
+        let near = |c: RGBColor, tol: i32| {
+            rgb.chunks_exact(3).any(|p| {
+                (i32::from(p[0]) - i32::from(c.0)).abs() <= tol
+                    && (i32::from(p[1]) - i32::from(c.1)).abs() <= tol
+                    && (i32::from(p[2]) - i32::from(c.2)).abs() <= tol
+            })
+        };
+        for c in [MASK_RGB, MARKER_RGB, PAPER] {
+            assert!(near(c, 2), "{c:?} missing on {}", panel.name());
+        }
+        // No C3 limit shading on a panel.
+        assert!(!near(SHADE_RGB, 0), "shade on {}", panel.name());
+        let big = render_panel_png(
+            &spec(&g),
+            panel,
+            &Endpoints::bare(),
+            DEFAULT_WIDTH_PX,
+            DEFAULT_HEIGHT_PX,
+        )
+        .expect("png");
+        let (_, _, rgb) = decode(&big);
+        assert!(
+            rgb.chunks_exact(3)
+                .any(|p| (p[0], p[1], p[2]) == (PANEL_RGB.0, PANEL_RGB.1, PANEL_RGB.2)),
+            "panel colour missing on {}",
+            panel.name()
+        );
+    }
+    assert!(matches!(
+        render_panel_png(&spec(&g), Panel::Dla, &Endpoints::bare(), 100, 100),
+        Err(ChartError::ImageSize { .. })
+    ));
+    let mut s = spec(&g);
+    s.layer = 2;
+    assert!(matches!(
+        render_panel_svg(&s, Panel::Dla, &Endpoints::bare()),
+        Err(ChartError::NoSuchLayer { .. })
+    ));
+    assert_eq!(render_svg(&spec(&g)).expect("svg"), before);
+}
+
+#[test]
+fn panel_lines_stay_out_of_blank_cells() {
+    let g = panel_grid();
+    let lay = layout(DEFAULT_WIDTH_PX, DEFAULT_HEIGHT_PX);
+    let map = Map {
+        xmin: g.depart.start_days,
+        xmax: g.depart.end_days(),
+        ymin: g.second.start_days,
+        ymax: g.second.end_days(),
+        plot: lay.plot,
+    };
+    for panel in Panel::ALL {
+        let svg = render_panel_svg(&spec(&g), panel, &Endpoints::bare()).expect("svg");
+        let mut n = 0;
+        for (class, pts) in polylines(&svg) {
+            if class != "panel" {
+                continue;
+            }
+            for (x, y) in pts {
+                let d = map.data_x(x / 2.0) - dc();
+                let tof = map.data_y(y / 2.0) - map.data_x(x / 2.0);
+                let inside =
+                    d > 30.0 + 3.0 && d < 50.0 - 3.0 && tof > 240.0 + 6.0 && tof < 280.0 - 6.0;
+                assert!(!inside, "{} line in the block", panel.name());
+                assert!(
+                    tof > 80.0 - 6.0,
+                    "{} line in the blank corner",
+                    panel.name()
+                );
+                n += 1;
+            }
+        }
+        assert!(n > 20, "{}: {n} points", panel.name());
+    }
+}
+
+#[test]
+fn panels_on_time_of_flight_grids_and_fields_without_values() {
+    // Time-of-flight axis: no diagonals, the panel's lines still drawn.
+    let mut g = analytic_grid(SecondAxis::TimeOfFlight);
+    for idx in 0..g.cells() {
+        g.depart_dir[idx] = [0.6, 0.0, 0.8];
+    }
+    let svg = render_panel_svg(&spec(&g), Panel::DvTotal, &Endpoints::bare()).expect("svg");
+    let lines = polylines(&svg);
+    assert_eq!(count(&lines, "tof"), 0);
+    assert!(count(&lines, "panel") >= 5);
+    // A flat DLA (53.13 deg everywhere) and an unknown arrival
+    // direction (NaN) give no lines, but still a chart.
+    for panel in [Panel::Dla, Panel::ArriveDec] {
+        let svg = render_panel_svg(&spec(&g), panel, &Endpoints::bare()).expect("svg");
+        assert_eq!(count(&polylines(&svg), "panel"), 0);
+        assert!(texts(&svg).iter().any(|t| t == panel.legend()));
+    }
+}
+
+/// The golden SVGs under `src/chart/testdata/`, byte for byte. They were
+/// drawn by this code (so they guard against unintended change, not
+/// against a wrong chart: the tests above do that); after a deliberate
+/// change, regenerate them with
+/// `cargo run --release --example chart_fixtures -- golden` and say why in
+/// the commit.
+#[test]
+fn charts_match_the_golden_svgs() {
+    let dir = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("src/chart/testdata");
+    let charts = golden_charts().expect("golden charts render");
+    assert_eq!(charts.len(), 6);
+    for (name, now) in &charts {
+        let saved = std::fs::read_to_string(dir.join(name))
+            .unwrap_or_else(|e| panic!("{name}: cannot read the golden copy: {e}"));
+        if let Some((n, (a, b))) = saved
+            .lines()
+            .zip(now.lines())
+            .enumerate()
+            .find(|(_, (a, b))| a != b)
+        {
+            panic!("{name}: line {} differs\n saved: {a}\n   now: {b}", n + 1);
+        }
+        assert_eq!(now.len(), saved.len(), "{name}: length changed");
+        assert!(now == &saved, "{name}: content changed");
+    }
+}
