@@ -18,11 +18,32 @@
 //! departure asymptote's declination (DLA), the arrival asymptote's
 //! declination, or the total delta-v.
 //!
-//! [`isolines`] turns a sampled field into polylines (marching squares, via
-//! the `contour` crate), [`levels`] picks contour levels, and the renderer
-//! draws with `plotters`, once for both formats: the PNG is drawn at twice
-//! its size and box-filtered down (the bitmap backend does not anti-alias)
-//! and written with the `png` crate; the SVG keeps its text as text.
+//! # How a chart is made
+//!
+//! Data flows one way through modules of one concept each:
+//!
+//! * `plan` works out, once per chart, everything that is drawn: the
+//!   layer's fields, the contour levels ([`levels`]) and their
+//!   [`isolines`] (marching squares, via the `contour` crate), the shaded
+//!   and blank regions, the time-of-flight lines, the title and the ticks;
+//!   `panel` says what a [`Panel`] contours;
+//! * `geometry` holds the plane geometry in logical px: the layout, the
+//!   map from data coordinates, polygon clipping, dashes and where labels
+//!   fit;
+//! * `draw` draws a plan with `plotters`, one code path for both formats,
+//!   in the look that `style` fixes (palette, line kinds, text sizes);
+//! * `encode` turns the drawing into bytes: the embedded font, the SVG
+//!   (text stays text; data lines tagged with a `class`) and the one PNG
+//!   pipeline of every chart (drawn at twice the size, box-filtered down
+//!   because the bitmap backend does not anti-alias, written with the
+//!   `png` crate);
+//! * `render` is the entry: a [`Chart`] planned once and drawn to SVG and
+//!   PNG, and the one-call [`render_svg`], [`render_png`],
+//!   [`render_panel_svg`], [`render_panel_png`]; `overview` draws the span
+//!   overview through the same encoder.
+//!
+//! Dates on the axes come from `calendar`, the chart's one seam to the
+//! calendar ([`date_label_tdb`]).
 //!
 //! Chart text uses DejaVu Sans, embedded in the library (Bitstream Vera
 //! licence, `src/chart/fonts/LICENSE-DejaVu.txt`).
@@ -30,19 +51,27 @@
 //! Every chart is a preliminary design figure; its caption says so.
 
 mod calendar;
+mod draw;
+mod encode;
+mod geometry;
 pub mod isolines;
 pub mod levels;
 mod overview;
 mod panel;
+mod plan;
 mod render;
 #[doc(hidden)]
 pub mod samples;
+mod style;
 #[cfg(test)]
 mod tests;
 
 pub use overview::{overview_png, overview_svg, OverviewPoint, OverviewSpec};
-pub use panel::{render_panel_png, render_panel_svg, Panel, MAX_ANGLE_LINES};
-pub use render::{render_png, render_svg, DEFAULT_HEIGHT_PX, DEFAULT_WIDTH_PX};
+pub use panel::{Panel, MAX_ANGLE_LINES};
+pub use render::{
+    render_panel_png, render_panel_svg, render_png, render_svg, Chart, DEFAULT_HEIGHT_PX,
+    DEFAULT_WIDTH_PX,
+};
 
 pub use calendar::date_label_tdb;
 #[doc(hidden)]
@@ -141,4 +170,9 @@ pub enum ChartError {
     /// PNG encoding failed.
     #[error("png encoding failed: {0}")]
     Png(String),
+}
+
+/// A drawing backend's error as a [`ChartError::Draw`].
+pub(crate) fn draw_err<E: std::fmt::Display>(e: E) -> ChartError {
+    ChartError::Draw(e.to_string())
 }

@@ -1,15 +1,21 @@
 //! The span overview: the best C3 and arrival v-infinity of every
 //! opportunity against its departure date, one series per Type.
 
+use plotters::coord::types::RangedCoordf64;
 use plotters::coord::Shift;
 use plotters::prelude::*;
 
-use super::render::{
-    check_size, downsample_2x, draw_err, encode_png, ensure_font, C3_RGB, CAPTION, GRIDLINE_RGB,
-    INK, LIMIT_RGB, MUTED, VINF_RGB,
-};
-use super::{date_label_tdb, ChartError};
+use super::calendar::date_label_tdb;
+use super::encode::{self, check_size, ensure_font};
+use super::style::{C3_RGB, CAPTION, FONT_FAMILY, GRIDLINE_RGB, INK, LIMIT_RGB, MUTED, VINF_RGB};
+use super::{draw_err, ChartError};
 use crate::transfer::TransferType;
+
+/// The overview's size as SVG, px (3:2, the width of the main chart);
+/// its PNG may have any size and scales from this one.
+const OVERVIEW_WIDTH_PX: u32 = 1800;
+/// The overview's SVG height, px.
+const OVERVIEW_HEIGHT_PX: u32 = 1200;
 
 /// One optimum on the overview.
 #[derive(Debug, Clone, Copy, PartialEq)]
@@ -51,162 +57,191 @@ fn bounds(v: impl Iterator<Item = f64>) -> Option<(f64, f64)> {
     })
 }
 
-/// A panel: axis label, colour, the value plotted, an optional limit line.
-type Panel = (
-    &'static str,
-    RGBColor,
-    Box<dyn Fn(&OverviewPoint) -> f64>,
-    Option<f64>,
-);
+/// One of the overview's two plots: axis label, colour, the value plotted,
+/// an optional limit line.
+struct Quantity {
+    label: &'static str,
+    colour: RGBColor,
+    value: fn(&OverviewPoint) -> f64,
+    limit: Option<f64>,
+}
 
+/// The overview's plotting surface.
+type Plot<'a, DB> = ChartContext<'a, DB, Cartesian2d<RangedCoordf64, RangedCoordf64>>;
+
+/// `v` logical px (at 1800 px wide) in backend px.
+fn px(v: f64, s: f64) -> i32 {
+    (v * s).round() as i32
+}
+
+/// The chart font at `size` logical px.
+fn font(size: f64, s: f64) -> FontDesc<'static> {
+    (FONT_FAMILY, size * s).into_font()
+}
+
+/// Draws the overview on `area`, `s` backend px per logical px: headings,
+/// then C3 above arrival v-infinity against the departure date.
 fn draw<DB: DrawingBackend>(
     area: &DrawingArea<DB, Shift>,
     spec: &OverviewSpec,
     s: f64,
 ) -> Result<(), ChartError> {
     area.fill(&WHITE).map_err(draw_err)?;
-    let px = |v: f64| (v * s).round() as i32;
-    let font = |size: f64| ("sans-serif", size * s).into_font();
-    let (w, h) = area.dim_in_pixel();
-    area.draw(&Text::new(
-        spec.title.clone(),
-        (px(40.0), px(22.0)),
-        font(34.0).color(&INK),
-    ))
-    .map_err(draw_err)?;
-    area.draw(&Text::new(
-        spec.subtitle.clone(),
-        (px(40.0), px(66.0)),
-        font(22.0).color(&MUTED),
-    ))
-    .map_err(draw_err)?;
-    area.draw(&Text::new(
-        CAPTION,
-        (px(40.0), h as i32 - px(40.0)),
-        font(17.0).color(&MUTED),
-    ))
-    .map_err(draw_err)?;
-    let body = area.margin(px(110.0), px(70.0), px(20.0), px(40.0));
+    headings(area, spec, s)?;
+    let body = area.margin(px(110.0, s), px(70.0, s), px(20.0, s), px(40.0, s));
     let panels = body.split_evenly((2, 1));
     let Some((x0, x1)) = bounds(spec.points.iter().map(|p| p.depart_days)) else {
         return Err(ChartError::GridTooSmall { nx: 0, ny: 0 });
     };
+    // At least half a year across, so that a single optimum has room.
     let x_span = (x0.min(x1 - 180.0), x1.max(x0 + 180.0));
-    let c3_max = spec.max_c3.unwrap_or(f64::NEG_INFINITY);
-    let panels_spec: [Panel; 2] = [
-        (
-            "Departure C3, km²/s²",
-            C3_RGB,
-            Box::new(|p: &OverviewPoint| p.c3_km2_s2),
-            spec.max_c3,
-        ),
-        (
-            "Arrival v∞, km/s",
-            VINF_RGB,
-            Box::new(|p: &OverviewPoint| p.vinf_arrive_km_s),
-            None,
-        ),
+    let quantities = [
+        Quantity {
+            label: "Departure C3, km²/s²",
+            colour: C3_RGB,
+            value: |p| p.c3_km2_s2,
+            limit: spec.max_c3,
+        },
+        Quantity {
+            label: "Arrival v∞, km/s",
+            colour: VINF_RGB,
+            value: |p| p.vinf_arrive_km_s,
+            limit: None,
+        },
     ];
-    for (panel, (label, colour, value, limit)) in panels.iter().zip(panels_spec.iter()) {
-        let Some((y0, mut y1)) = bounds(spec.points.iter().map(value)) else {
-            continue;
-        };
-        if limit.is_some() {
-            y1 = y1.max(c3_max * 1.05);
-        }
-        let mut chart = ChartBuilder::on(panel)
-            .margin(px(12.0))
-            .x_label_area_size(px(48.0))
-            .y_label_area_size(px(90.0))
-            .build_cartesian_2d(x_span.0..x_span.1, y0..y1)
-            .map_err(draw_err)?;
-        chart
-            .configure_mesh()
-            .light_line_style(GRIDLINE_RGB)
-            .bold_line_style(GRIDLINE_RGB)
-            .axis_style(INK)
-            .x_labels(8)
-            .y_labels(6)
-            .x_label_formatter(&|d| date_label_tdb(*d))
-            .y_desc(*label)
-            .x_desc("Departure date (TDB)")
-            .label_style(font(17.0).color(&INK))
-            .axis_desc_style(font(19.0).color(&INK))
-            .draw()
-            .map_err(draw_err)?;
-        if let Some(m) = limit {
-            chart
-                .draw_series(LineSeries::new(
-                    [(x_span.0, *m), (x_span.1, *m)],
-                    LIMIT_RGB.stroke_width(px(2.0) as u32),
-                ))
-                .map_err(draw_err)?
-                .label(format!("C3 ceiling {m}"))
-                .legend(move |(x, y)| {
-                    PathElement::new(
-                        [(x, y), (x + px(30.0), y)],
-                        LIMIT_RGB.stroke_width(px(2.0) as u32),
-                    )
-                });
-        }
-        for kind in [TransferType::I, TransferType::II] {
-            let mut pts: Vec<&OverviewPoint> =
-                spec.points.iter().filter(|p| p.kind == kind).collect();
-            pts.sort_by(|a, b| a.depart_days.total_cmp(&b.depart_days));
-            let style = colour.mix(if kind == TransferType::I { 1.0 } else { 0.55 });
-            chart
-                .draw_series(LineSeries::new(
-                    pts.iter().map(|p| (p.depart_days, value(p))),
-                    style.stroke_width(px(1.5).max(1) as u32),
-                ))
-                .map_err(draw_err)?
-                .label(format!("Type {kind}"))
-                .legend(move |(x, y)| {
-                    PathElement::new(
-                        [(x, y), (x + px(30.0), y)],
-                        style.stroke_width(px(2.0) as u32),
-                    )
-                });
-            for p in pts {
-                let filled = !p.flagged;
-                let at = (p.depart_days, value(p));
-                let r = px(6.0).max(2) as u32;
-                let mk = if kind == TransferType::I {
-                    Circle::new(
-                        at,
-                        r,
-                        if filled {
-                            style.filled()
-                        } else {
-                            style.stroke_width(px(2.0) as u32)
-                        },
-                    )
-                    .into_dyn()
-                } else {
-                    TriangleMarker::new(
-                        at,
-                        r + 2,
-                        if filled {
-                            style.filled()
-                        } else {
-                            style.stroke_width(px(2.0) as u32)
-                        },
-                    )
-                    .into_dyn()
-                };
-                chart.draw_series(std::iter::once(mk)).map_err(draw_err)?;
-            }
-        }
-        chart
-            .configure_series_labels()
-            .background_style(WHITE.mix(0.9))
-            .border_style(MUTED)
-            .label_font(font(17.0).color(&INK))
-            .position(SeriesLabelPosition::UpperRight)
-            .draw()
-            .map_err(draw_err)?;
+    for (panel, q) in panels.iter().zip(quantities.iter()) {
+        plot_quantity(panel, spec, q, x_span, s)?;
     }
-    let _ = w;
+    Ok(())
+}
+
+/// Title, subtitle and caption.
+fn headings<DB: DrawingBackend>(
+    area: &DrawingArea<DB, Shift>,
+    spec: &OverviewSpec,
+    s: f64,
+) -> Result<(), ChartError> {
+    let (_, h) = area.dim_in_pixel();
+    area.draw(&Text::new(
+        spec.title.clone(),
+        (px(40.0, s), px(22.0, s)),
+        font(34.0, s).color(&INK),
+    ))
+    .map_err(draw_err)?;
+    area.draw(&Text::new(
+        spec.subtitle.clone(),
+        (px(40.0, s), px(66.0, s)),
+        font(22.0, s).color(&MUTED),
+    ))
+    .map_err(draw_err)?;
+    area.draw(&Text::new(
+        CAPTION,
+        (px(40.0, s), h as i32 - px(40.0, s)),
+        font(17.0, s).color(&MUTED),
+    ))
+    .map_err(draw_err)
+}
+
+/// One quantity against the departure date: axes, the limit line, a
+/// series per Type, the series legend.
+fn plot_quantity<DB: DrawingBackend>(
+    panel: &DrawingArea<DB, Shift>,
+    spec: &OverviewSpec,
+    q: &Quantity,
+    x_span: (f64, f64),
+    s: f64,
+) -> Result<(), ChartError> {
+    let Some((y0, mut y1)) = bounds(spec.points.iter().map(q.value)) else {
+        return Ok(());
+    };
+    if q.limit.is_some() {
+        // Room above the limit line.
+        y1 = y1.max(spec.max_c3.unwrap_or(f64::NEG_INFINITY) * 1.05);
+    }
+    let mut chart = ChartBuilder::on(panel)
+        .margin(px(12.0, s))
+        .x_label_area_size(px(48.0, s))
+        .y_label_area_size(px(90.0, s))
+        .build_cartesian_2d(x_span.0..x_span.1, y0..y1)
+        .map_err(draw_err)?;
+    chart
+        .configure_mesh()
+        .light_line_style(GRIDLINE_RGB)
+        .bold_line_style(GRIDLINE_RGB)
+        .axis_style(INK)
+        .x_labels(8)
+        .y_labels(6)
+        .x_label_formatter(&|d| date_label_tdb(*d))
+        .y_desc(q.label)
+        .x_desc("Departure date (TDB)")
+        .label_style(font(17.0, s).color(&INK))
+        .axis_desc_style(font(19.0, s).color(&INK))
+        .draw()
+        .map_err(draw_err)?;
+    if let Some(m) = q.limit {
+        let style = LIMIT_RGB.stroke_width(px(2.0, s) as u32);
+        chart
+            .draw_series(LineSeries::new([(x_span.0, m), (x_span.1, m)], style))
+            .map_err(draw_err)?
+            .label(format!("C3 ceiling {m}"))
+            .legend(move |(x, y)| PathElement::new([(x, y), (x + px(30.0, s), y)], style));
+    }
+    for kind in [TransferType::I, TransferType::II] {
+        type_series(&mut chart, spec, q, kind, s)?;
+    }
+    chart
+        .configure_series_labels()
+        .background_style(WHITE.mix(0.9))
+        .border_style(MUTED)
+        .label_font(font(17.0, s).color(&INK))
+        .position(SeriesLabelPosition::UpperRight)
+        .draw()
+        .map_err(draw_err)
+}
+
+/// The optima of one Type joined in departure order, Type I as circles
+/// and Type II as triangles, flagged ones hollow.
+fn type_series<DB: DrawingBackend>(
+    chart: &mut Plot<'_, DB>,
+    spec: &OverviewSpec,
+    q: &Quantity,
+    kind: TransferType,
+    s: f64,
+) -> Result<(), ChartError> {
+    let value = q.value;
+    let mut pts: Vec<&OverviewPoint> = spec.points.iter().filter(|p| p.kind == kind).collect();
+    pts.sort_by(|a, b| a.depart_days.total_cmp(&b.depart_days));
+    let style = q
+        .colour
+        .mix(if kind == TransferType::I { 1.0 } else { 0.55 });
+    chart
+        .draw_series(LineSeries::new(
+            pts.iter().map(|p| (p.depart_days, value(p))),
+            style.stroke_width(px(1.5, s).max(1) as u32),
+        ))
+        .map_err(draw_err)?
+        .label(format!("Type {kind}"))
+        .legend(move |(x, y)| {
+            PathElement::new(
+                [(x, y), (x + px(30.0, s), y)],
+                style.stroke_width(px(2.0, s) as u32),
+            )
+        });
+    for p in pts {
+        let at = (p.depart_days, value(p));
+        let r = px(6.0, s).max(2) as u32;
+        let look = if p.flagged {
+            style.stroke_width(px(2.0, s) as u32)
+        } else {
+            style.filled()
+        };
+        let mk = if kind == TransferType::I {
+            Circle::new(at, r, look).into_dyn()
+        } else {
+            TriangleMarker::new(at, r + 2, look).into_dyn()
+        };
+        chart.draw_series(std::iter::once(mk)).map_err(draw_err)?;
+    }
     Ok(())
 }
 
@@ -216,13 +251,9 @@ fn draw<DB: DrawingBackend>(
 /// [`ChartError`] when there is nothing to plot or drawing fails.
 pub fn overview_svg(spec: &OverviewSpec) -> Result<String, ChartError> {
     ensure_font()?;
-    let mut svg = String::new();
-    {
-        let area = SVGBackend::with_string(&mut svg, (1800, 1200)).into_drawing_area();
-        draw(&area, spec, 1.0)?;
-        area.present().map_err(draw_err)?;
-    }
-    Ok(svg)
+    encode::svg(OVERVIEW_WIDTH_PX, OVERVIEW_HEIGHT_PX, |area| {
+        draw(area, spec, 1.0)
+    })
 }
 
 /// The overview as PNG bytes, drawn at twice the size and box-filtered.
@@ -237,18 +268,8 @@ pub fn overview_png(
 ) -> Result<Vec<u8>, ChartError> {
     check_size(width_px, height_px)?;
     ensure_font()?;
-    let (bw, bh) = (2 * width_px, 2 * height_px);
-    let mut big = vec![255u8; bw as usize * bh as usize * 3];
-    {
-        let area = BitMapBackend::with_buffer(&mut big, (bw, bh)).into_drawing_area();
-        draw(&area, spec, 2.0 * f64::from(width_px) / 1800.0)?;
-        area.present().map_err(draw_err)?;
-    }
-    encode_png(
-        &downsample_2x(&big, width_px as usize, height_px as usize),
-        width_px,
-        height_px,
-    )
+    let s = f64::from(encode::SUPERSAMPLE) * f64::from(width_px) / f64::from(OVERVIEW_WIDTH_PX);
+    encode::png(width_px, height_px, |area| draw(area, spec, s))
 }
 
 #[cfg(test)]

@@ -1,15 +1,14 @@
-//! Extra chart panels: the transfer-window frame with another quantity
-//! contoured in place of C3 and arrival v-infinity.
+//! The extra chart panels: which quantity a panel contours in place of C3
+//! and arrival v-infinity, its levels, and how it is named and labelled.
 //!
-//! A panel keeps everything of the main chart that locates a transfer
-//! (axes, dates, blank unsolved cells, time-of-flight lines, the Type I/II
-//! ridge, markers, title, legend and caption) and draws one labelled
-//! contour family of the chosen [`Panel`] quantity. The spec's C3 and
-//! v-infinity levels and its C3 limit are not used.
+//! A panel (drawn by [`super::render_panel_svg`] and
+//! [`super::render_panel_png`]) keeps everything of the main chart that
+//! locates a transfer (axes, dates, blank unsolved cells, time-of-flight
+//! lines, the Type I/II ridge, markers, title, legend and caption) and
+//! draws one labelled contour family of the chosen [`Panel`] quantity. The
+//! spec's C3 and v-infinity levels and its C3 limit are not used.
 
 use super::levels::{auto_levels, even_levels, format_level, MAX_C3_LINES};
-use super::render::{png_sized, svg_sized, Contours, DEFAULT_HEIGHT_PX, DEFAULT_WIDTH_PX};
-use super::{ChartError, ChartSpec};
 use crate::sweep::Grid;
 use crate::transfer::Endpoints;
 
@@ -98,50 +97,6 @@ impl Panel {
             Panel::DvTotal => auto_levels(values, MAX_C3_LINES),
         }
     }
-}
-
-/// A panel as an SVG document (1800 x 1350 px; text stays text).
-///
-/// The frame is the main chart's ([`super::render_svg`]); the contours are
-/// those of `panel`, one family with `class="panel"` on its lines, labelled
-/// with their values (degrees with `°`, delta-v in km/s). The title is
-/// `spec.title` with the quantity appended; `spec.c3_levels`,
-/// `spec.vinf_levels` and `spec.max_c3` are not used. `ends` counts the
-/// burns for [`Panel::DvTotal`] and is not used by the other panels (the
-/// grid stores the asymptote directions in the bodies' frames already).
-///
-/// # Errors
-/// [`ChartError::NoSuchLayer`], [`ChartError::GridTooSmall`] and friends
-/// for an unusable grid; [`ChartError::Draw`] if drawing fails.
-pub fn render_panel_svg(
-    spec: &ChartSpec,
-    panel: Panel,
-    ends: &Endpoints,
-) -> Result<String, ChartError> {
-    svg_sized(
-        spec,
-        Contours::Panel(panel, ends),
-        DEFAULT_WIDTH_PX,
-        DEFAULT_HEIGHT_PX,
-    )
-}
-
-/// A panel as PNG bytes of `width_px` x `height_px`, RGB, 8 bits: what
-/// [`render_panel_svg`] draws, rendered like [`super::render_png`].
-///
-/// # Errors
-/// [`ChartError::ImageSize`] for sides outside 200..=10000 px;
-/// [`ChartError::NoSuchLayer`], [`ChartError::GridTooSmall`] and friends
-/// for an unusable grid; [`ChartError::Draw`] or [`ChartError::Png`] if
-/// drawing or encoding fails.
-pub fn render_panel_png(
-    spec: &ChartSpec,
-    panel: Panel,
-    ends: &Endpoints,
-    width_px: u32,
-    height_px: u32,
-) -> Result<Vec<u8>, ChartError> {
-    png_sized(spec, Contours::Panel(panel, ends), width_px, height_px)
 }
 
 #[cfg(test)]

@@ -2,14 +2,14 @@
 //! ([`super::samples`]): where lines lie follows from the grids' closed
 //! forms, and the golden SVGs catch any unintended change of bytes.
 
+use super::geometry::{layout, Map};
 use super::levels::format_level;
-use super::render::{
-    layout, Map, C3_RGB, CAPTION, INK, MARKER_RGB, MASK_RGB, PANEL_RGB, PAPER, RIDGE_RGB,
-    SHADE_RGB, VINF_RGB,
-};
 use super::samples::{
     analytic_centre_days as dc, analytic_grid, analytic_spec as spec, golden_charts, panel_grid,
     synthetic_grid,
+};
+use super::style::{
+    C3_RGB, CAPTION, INK, MARKER_RGB, MASK_RGB, PANEL_RGB, PAPER, RIDGE_RGB, SHADE_RGB, VINF_RGB,
 };
 use super::{
     render_panel_png, render_panel_svg, render_png, render_svg, ChartError, Panel,
