@@ -34,7 +34,11 @@ fn main() -> ExitCode {
     let args: Vec<String> = std::env::args().skip(1).collect();
     let outcome = match args.iter().map(String::as_str).collect::<Vec<_>>()[..] {
         ["golden"] => golden(),
-        ["preview", dir] => preview(Path::new(dir)),
+        ["preview", dir] if Path::new(dir).is_dir() => preview(Path::new(dir)),
+        ["preview", dir] => {
+            eprintln!("chart_fixtures: {dir}: not a directory (create it first)");
+            return ExitCode::from(2);
+        }
         _ => {
             eprintln!("{USAGE}");
             return ExitCode::from(2);
@@ -76,9 +80,6 @@ impl Files {
 }
 
 fn preview(dir: &Path) -> Outcome {
-    if !dir.is_dir() {
-        return Err(format!("{}: not a directory (create it first)", dir.display()).into());
-    }
     let mut out = Files {
         dir: dir.to_path_buf(),
         files: Vec::new(),

@@ -486,4 +486,83 @@ mod tests {
         assert_eq!(c.len(), 8);
         assert!(clip_polygon(&[(20.0, 20.0), (30.0, 20.0), (25.0, 30.0)], &r).is_empty());
     }
+
+    fn bounds() -> Rect {
+        Rect {
+            x0: 0.0,
+            y0: 0.0,
+            x1: 400.0,
+            y1: 300.0,
+        }
+    }
+
+    /// Every rectangle taken lies within the bounds and overlaps no other
+    /// (checked here by separating sides, not with `Rect`'s own tests).
+    fn assert_disjoint_within(p: &Placer) {
+        let b = p.bounds;
+        for (i, r) in p.taken.iter().enumerate() {
+            let inside = r.x0 >= b.x0 && r.x1 <= b.x1 && r.y0 >= b.y0 && r.y1 <= b.y1;
+            assert!(inside, "{r:?} outside");
+            for o in &p.taken[i + 1..] {
+                let apart = r.x1 <= o.x0 || o.x1 <= r.x0 || r.y1 <= o.y0 || o.y1 <= r.y0;
+                assert!(apart, "{r:?} overlaps {o:?}");
+            }
+        }
+    }
+
+    #[test]
+    fn labels_on_crossing_lines_never_overlap() {
+        let mut p = Placer::new(bounds());
+        p.reserve(Rect::centred(200.0, 150.0, 20.0, 20.0));
+        let mut placed = 0;
+        // A fan of lines through the reserved centre, longer than the
+        // bounds, and a ring around it.
+        for n in 0..12 {
+            let a = f64::from(n) * std::f64::consts::PI / 12.0;
+            let (c, s) = (a.cos(), a.sin());
+            let line = [
+                (200.0 - 300.0 * c, 150.0 - 300.0 * s),
+                (200.0 + 300.0 * c, 150.0 + 300.0 * s),
+            ];
+            placed += p.along_line(&line, (40.0, 16.0), 0.3).len();
+        }
+        let ring: Vec<(f64, f64)> = (0..=64)
+            .map(|i| {
+                let a = f64::from(i) * std::f64::consts::TAU / 64.0;
+                (200.0 + 100.0 * a.cos(), 150.0 + 100.0 * a.sin())
+            })
+            .collect();
+        placed += p.along_line(&ring, (40.0, 16.0), 0.3).len();
+        assert!(placed >= 6, "only {placed} labels placed");
+        assert_eq!(p.taken.len(), placed + 1);
+        assert_disjoint_within(&p);
+        // A line shorter than 2.5 boxes gets no label.
+        assert!(p
+            .along_line(&[(10.0, 10.0), (100.0, 10.0)], (40.0, 16.0), 1.0)
+            .is_empty());
+    }
+
+    #[test]
+    fn marker_boxes_and_region_names_keep_clear() {
+        let mut p = Placer::new(bounds());
+        let marker = Rect::centred(200.0, 150.0, 20.0, 20.0);
+        p.reserve(marker);
+        let first = p.beside_point((200.0, 150.0), (80.0, 20.0), 1.0);
+        let second = p.beside_point((200.0, 150.0), (80.0, 20.0), 1.0);
+        let (a, b) = (first.expect("room"), second.expect("room"));
+        assert!(!a.overlaps(&marker) && !b.overlaps(&marker));
+        // The first box sits up and right of the marker, the second below.
+        assert!(a.x0 > 200.0 && a.y1 < 150.0, "{a:?}");
+        assert!(b.y0 > 150.0, "{b:?}");
+        // Names either side of a horizontal line at y = 60: side 1 below.
+        let line = [(0.0, 60.0), (400.0, 60.0)];
+        let sides = p.either_side(&line, 0.5, [(30.0, 12.0), (40.0, 12.0)], |q| {
+            Some(usize::from(q.1 > 60.0))
+        });
+        assert_eq!(sides.len(), 2, "{sides:?}");
+        for (side, q) in &sides {
+            assert_eq!(*side == 1, q.1 > 60.0, "{sides:?}");
+        }
+        assert_disjoint_within(&p);
+    }
 }

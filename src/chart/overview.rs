@@ -17,6 +17,43 @@ const OVERVIEW_WIDTH_PX: u32 = 1800;
 /// The overview's SVG height, px.
 const OVERVIEW_HEIGHT_PX: u32 = 1200;
 
+// Layout at 1800 px wide, logical px (chosen by eye; no source).
+/// Left edge of the headings; the caption's baseline is as far above the
+/// bottom.
+const HEADING_LEFT_PX: f64 = 40.0;
+/// Top of the title.
+const TITLE_TOP_PX: f64 = 22.0;
+/// Top of the subtitle.
+const SUBTITLE_TOP_PX: f64 = 66.0;
+/// Margins of the two plots' area: top (below the headings), bottom
+/// (above the caption), left, right.
+const BODY_MARGINS_PX: (f64, f64, f64, f64) = (110.0, 70.0, 20.0, 40.0);
+/// Margin around each plot.
+const PLOT_MARGIN_PX: f64 = 12.0;
+/// Height of the date labels' band under each plot.
+const X_LABEL_AREA_PX: f64 = 48.0;
+/// Width of the value labels' band left of each plot.
+const Y_LABEL_AREA_PX: f64 = 90.0;
+/// Title text.
+const TITLE_TEXT_PX: f64 = 34.0;
+/// Subtitle text.
+const SUBTITLE_TEXT_PX: f64 = 22.0;
+/// Axis titles.
+const AXIS_TITLE_TEXT_PX: f64 = 19.0;
+/// Tick labels, the series legend and the caption.
+const LABEL_TEXT_PX: f64 = 17.0;
+/// Stroke of the series lines.
+const SERIES_STROKE_PX: f64 = 1.5;
+/// Stroke of the limit line, the legend samples and hollow markers.
+const HEAVY_STROKE_PX: f64 = 2.0;
+/// Length of a legend sample line.
+const LEGEND_SAMPLE_PX: f64 = 30.0;
+/// Radius of a Type I circle (a Type II triangle is 2 backend px larger).
+const MARKER_RADIUS_PX: f64 = 6.0;
+/// The departure axis spans at least this many days, so that a single
+/// optimum has room.
+const MIN_SPAN_DAYS: f64 = 180.0;
+
 /// One optimum on the overview.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct OverviewPoint {
@@ -45,6 +82,9 @@ pub struct OverviewSpec {
     pub max_c3: Option<f64>,
 }
 
+/// The range of the finite values, padded by 8 % of its width (at least
+/// 5 % of the upper end's magnitude, and at least 0.05) so that markers
+/// clear the frame.
 fn bounds(v: impl Iterator<Item = f64>) -> Option<(f64, f64)> {
     let (lo, hi) = v
         .filter(|x| x.is_finite())
@@ -88,13 +128,13 @@ fn draw<DB: DrawingBackend>(
 ) -> Result<(), ChartError> {
     area.fill(&WHITE).map_err(draw_err)?;
     headings(area, spec, s)?;
-    let body = area.margin(px(110.0, s), px(70.0, s), px(20.0, s), px(40.0, s));
+    let (top, bottom, left, right) = BODY_MARGINS_PX;
+    let body = area.margin(px(top, s), px(bottom, s), px(left, s), px(right, s));
     let panels = body.split_evenly((2, 1));
     let Some((x0, x1)) = bounds(spec.points.iter().map(|p| p.depart_days)) else {
         return Err(ChartError::GridTooSmall { nx: 0, ny: 0 });
     };
-    // At least half a year across, so that a single optimum has room.
-    let x_span = (x0.min(x1 - 180.0), x1.max(x0 + 180.0));
+    let x_span = (x0.min(x1 - MIN_SPAN_DAYS), x1.max(x0 + MIN_SPAN_DAYS));
     let quantities = [
         Quantity {
             label: "Departure C3, km²/s²",
@@ -124,20 +164,20 @@ fn headings<DB: DrawingBackend>(
     let (_, h) = area.dim_in_pixel();
     area.draw(&Text::new(
         spec.title.clone(),
-        (px(40.0, s), px(22.0, s)),
-        font(34.0, s).color(&INK),
+        (px(HEADING_LEFT_PX, s), px(TITLE_TOP_PX, s)),
+        font(TITLE_TEXT_PX, s).color(&INK),
     ))
     .map_err(draw_err)?;
     area.draw(&Text::new(
         spec.subtitle.clone(),
-        (px(40.0, s), px(66.0, s)),
-        font(22.0, s).color(&MUTED),
+        (px(HEADING_LEFT_PX, s), px(SUBTITLE_TOP_PX, s)),
+        font(SUBTITLE_TEXT_PX, s).color(&MUTED),
     ))
     .map_err(draw_err)?;
     area.draw(&Text::new(
         CAPTION,
-        (px(40.0, s), h as i32 - px(40.0, s)),
-        font(17.0, s).color(&MUTED),
+        (px(HEADING_LEFT_PX, s), h as i32 - px(HEADING_LEFT_PX, s)),
+        font(LABEL_TEXT_PX, s).color(&MUTED),
     ))
     .map_err(draw_err)
 }
@@ -159,9 +199,9 @@ fn plot_quantity<DB: DrawingBackend>(
         y1 = y1.max(spec.max_c3.unwrap_or(f64::NEG_INFINITY) * 1.05);
     }
     let mut chart = ChartBuilder::on(panel)
-        .margin(px(12.0, s))
-        .x_label_area_size(px(48.0, s))
-        .y_label_area_size(px(90.0, s))
+        .margin(px(PLOT_MARGIN_PX, s))
+        .x_label_area_size(px(X_LABEL_AREA_PX, s))
+        .y_label_area_size(px(Y_LABEL_AREA_PX, s))
         .build_cartesian_2d(x_span.0..x_span.1, y0..y1)
         .map_err(draw_err)?;
     chart
@@ -174,17 +214,19 @@ fn plot_quantity<DB: DrawingBackend>(
         .x_label_formatter(&|d| date_label_tdb(*d))
         .y_desc(q.label)
         .x_desc("Departure date (TDB)")
-        .label_style(font(17.0, s).color(&INK))
-        .axis_desc_style(font(19.0, s).color(&INK))
+        .label_style(font(LABEL_TEXT_PX, s).color(&INK))
+        .axis_desc_style(font(AXIS_TITLE_TEXT_PX, s).color(&INK))
         .draw()
         .map_err(draw_err)?;
     if let Some(m) = q.limit {
-        let style = LIMIT_RGB.stroke_width(px(2.0, s) as u32);
+        let style = LIMIT_RGB.stroke_width(px(HEAVY_STROKE_PX, s) as u32);
         chart
             .draw_series(LineSeries::new([(x_span.0, m), (x_span.1, m)], style))
             .map_err(draw_err)?
             .label(format!("C3 ceiling {m}"))
-            .legend(move |(x, y)| PathElement::new([(x, y), (x + px(30.0, s), y)], style));
+            .legend(move |(x, y)| {
+                PathElement::new([(x, y), (x + px(LEGEND_SAMPLE_PX, s), y)], style)
+            });
     }
     for kind in [TransferType::I, TransferType::II] {
         type_series(&mut chart, spec, q, kind, s)?;
@@ -193,7 +235,7 @@ fn plot_quantity<DB: DrawingBackend>(
         .configure_series_labels()
         .background_style(WHITE.mix(0.9))
         .border_style(MUTED)
-        .label_font(font(17.0, s).color(&INK))
+        .label_font(font(LABEL_TEXT_PX, s).color(&INK))
         .position(SeriesLabelPosition::UpperRight)
         .draw()
         .map_err(draw_err)
@@ -211,27 +253,28 @@ fn type_series<DB: DrawingBackend>(
     let value = q.value;
     let mut pts: Vec<&OverviewPoint> = spec.points.iter().filter(|p| p.kind == kind).collect();
     pts.sort_by(|a, b| a.depart_days.total_cmp(&b.depart_days));
+    // Type II in the same hue, lighter.
     let style = q
         .colour
         .mix(if kind == TransferType::I { 1.0 } else { 0.55 });
     chart
         .draw_series(LineSeries::new(
             pts.iter().map(|p| (p.depart_days, value(p))),
-            style.stroke_width(px(1.5, s).max(1) as u32),
+            style.stroke_width(px(SERIES_STROKE_PX, s).max(1) as u32),
         ))
         .map_err(draw_err)?
         .label(format!("Type {kind}"))
         .legend(move |(x, y)| {
             PathElement::new(
-                [(x, y), (x + px(30.0, s), y)],
-                style.stroke_width(px(2.0, s) as u32),
+                [(x, y), (x + px(LEGEND_SAMPLE_PX, s), y)],
+                style.stroke_width(px(HEAVY_STROKE_PX, s) as u32),
             )
         });
     for p in pts {
         let at = (p.depart_days, value(p));
-        let r = px(6.0, s).max(2) as u32;
+        let r = px(MARKER_RADIUS_PX, s).max(2) as u32;
         let look = if p.flagged {
-            style.stroke_width(px(2.0, s) as u32)
+            style.stroke_width(px(HEAVY_STROKE_PX, s) as u32)
         } else {
             style.filled()
         };

@@ -489,4 +489,39 @@ mod tests {
         let t = date_ticks(lo, lo + 20.0, 8);
         assert!(t.len() >= 3 && t.len() <= 8, "{t:?}");
     }
+
+    #[test]
+    fn tof_lines_are_round_diagonals_across_the_rectangle() {
+        // Departures 0..100 days, arrivals 50..350 days: flights from 0
+        // (top left is 350, bottom right -50, clipped to 0) to 350 days.
+        // About 7 lines over 350 days: a step of 50 days, lines at
+        // 50, 100, ..., 300.
+        let lat = Lattice {
+            nx: 101,
+            ny: 301,
+            x0: 0.0,
+            dx: 1.0,
+            y0: 50.0,
+            dy: 1.0,
+        };
+        let lines = tof_lines(&lat);
+        let days: Vec<f64> = lines.iter().map(|l| l.days).collect();
+        // Whole days are exact in f64: 1e-9 allows only rounding noise.
+        let near = |a: f64, b: f64| (a - b).abs() < 1e-9;
+        let want = [50.0, 100.0, 150.0, 200.0, 250.0, 300.0];
+        assert!(
+            days.len() == want.len() && days.iter().zip(want).all(|(&d, w)| near(d, w)),
+            "{days:?}"
+        );
+        for l in &lines {
+            // Arrival - departure is the time of flight at both ends.
+            assert!(near(l.from.1 - l.from.0, l.days), "{l:?}");
+            assert!(near(l.to.1 - l.to.0, l.days), "{l:?}");
+            // Enters through the left or bottom edge, leaves through the
+            // right or top edge.
+            assert!(near(l.from.0, 0.0) || near(l.from.1, 50.0), "{l:?}");
+            assert!(near(l.to.0, 100.0) || near(l.to.1, 350.0), "{l:?}");
+            assert!(l.from.0 < l.to.0);
+        }
+    }
 }
