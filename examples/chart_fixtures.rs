@@ -18,15 +18,16 @@
 use std::path::{Path, PathBuf};
 use std::process::ExitCode;
 
-use synodic::chart::samples::{analytic_grid, analytic_spec, golden_charts, panel_grid};
+use synodic::chart::samples::{
+    analytic_grid, analytic_spec, golden_charts, overview_spec, panel_grid,
+};
 use synodic::chart::{
     date_label_tdb, overview_png, overview_svg, render_panel_png, render_panel_svg, render_png,
-    render_svg, synthetic_grid, ChartSpec, Marker, OverviewPoint, OverviewSpec, Panel,
-    DEFAULT_HEIGHT_PX, DEFAULT_WIDTH_PX,
+    render_svg, synthetic_grid, ChartSpec, Marker, Panel, DEFAULT_HEIGHT_PX, DEFAULT_WIDTH_PX,
 };
 use synodic::export::write_atomic;
 use synodic::sweep::SecondAxis;
-use synodic::transfer::{Endpoints, ParkingOrbit, TransferType};
+use synodic::transfer::{Endpoints, ParkingOrbit};
 
 const USAGE: &str = "usage: chart_fixtures golden | chart_fixtures preview DIR";
 
@@ -171,27 +172,9 @@ fn panels(out: &mut Files) -> Result<(), Box<dyn std::error::Error>> {
     Ok(())
 }
 
-/// A span overview of ten invented optima, two of them flagged.
+/// The span overview of `samples::overview_spec` at two sizes.
 fn overview(out: &mut Files) -> Result<(), Box<dyn std::error::Error>> {
-    let points = (0..5)
-        .flat_map(|k| {
-            [TransferType::I, TransferType::II].map(|kind| OverviewPoint {
-                depart_days: 11_000.0 + 780.0 * f64::from(k),
-                kind,
-                c3_km2_s2: 9.0
-                    + f64::from(k % 3)
-                    + if kind == TransferType::II { 0.5 } else { 0.0 },
-                vinf_arrive_km_s: 3.0 + 0.2 * f64::from(k),
-                flagged: k == 4,
-            })
-        })
-        .collect();
-    let spec = OverviewSpec {
-        title: "Teodra → Kesh, 2030-2040".to_string(),
-        subtitle: "Veyra system (invented)".to_string(),
-        points,
-        max_c3: Some(11.0),
-    };
+    let spec = overview_spec();
     out.add("overview.svg", overview_svg(&spec)?);
     out.add("overview.png", overview_png(&spec, 1800, 1200)?);
     out.add("overview-900.png", overview_png(&spec, 900, 600)?);

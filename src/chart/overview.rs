@@ -319,27 +319,7 @@ pub fn overview_png(
 mod tests {
     use super::*;
 
-    fn spec() -> OverviewSpec {
-        let points = (0..5)
-            .flat_map(|k| {
-                [TransferType::I, TransferType::II].map(|kind| OverviewPoint {
-                    depart_days: 11_000.0 + 780.0 * f64::from(k),
-                    kind,
-                    c3_km2_s2: 9.0
-                        + f64::from(k % 3)
-                        + if kind == TransferType::II { 0.5 } else { 0.0 },
-                    vinf_arrive_km_s: 3.0 + 0.2 * f64::from(k),
-                    flagged: k == 4,
-                })
-            })
-            .collect();
-        OverviewSpec {
-            title: "A → B".to_string(),
-            subtitle: "test".to_string(),
-            points,
-            max_c3: Some(11.0),
-        }
-    }
+    use crate::chart::samples::overview_spec as spec;
 
     #[test]
     fn overview_svg_has_both_panels_and_labels() {
@@ -351,7 +331,7 @@ mod tests {
             "Type I",
             "Type II",
             "C3 ceiling 11",
-            "A → B",
+            "Teodra → Kesh, 2030-2040",
         ] {
             assert!(svg.contains(t), "missing {t}");
         }

@@ -11,9 +11,11 @@
 //! when a chart is meant to change.
 
 use super::calendar::days_j2000_from_civil;
-use super::{render_panel_svg, render_svg, ChartError, ChartSpec, Marker, Panel};
+use super::{
+    render_panel_svg, render_svg, ChartError, ChartSpec, Marker, OverviewPoint, OverviewSpec, Panel,
+};
 use crate::sweep::{layers_for, Axis, CellStatus, Grid, SecondAxis};
-use crate::transfer::Endpoints;
+use crate::transfer::{Endpoints, TransferType};
 
 /// Samples along each axis of [`analytic_grid`].
 const ANALYTIC_N: usize = 200;
@@ -181,6 +183,31 @@ pub fn analytic_spec(grid: &Grid) -> ChartSpec<'_> {
             label: "C3 5.00 · 2031-07-20 → 2032-04-05".to_string(),
         }],
         max_c3: Some(25.0),
+    }
+}
+
+/// A span overview of ten invented optima, a Type I and a Type II every
+/// 780 days from 11,000 days past J2000 TDB; the last pair is flagged;
+/// C3 ceiling 11 km^2/s^2.
+pub fn overview_spec() -> OverviewSpec {
+    let points = (0..5)
+        .flat_map(|k| {
+            [TransferType::I, TransferType::II].map(|kind| OverviewPoint {
+                depart_days: 11_000.0 + 780.0 * f64::from(k),
+                kind,
+                c3_km2_s2: 9.0
+                    + f64::from(k % 3)
+                    + if kind == TransferType::II { 0.5 } else { 0.0 },
+                vinf_arrive_km_s: 3.0 + 0.2 * f64::from(k),
+                flagged: k == 4,
+            })
+        })
+        .collect();
+    OverviewSpec {
+        title: "Teodra → Kesh, 2030-2040".to_string(),
+        subtitle: "Veyra system (invented)".to_string(),
+        points,
+        max_c3: Some(11.0),
     }
 }
 

@@ -15,7 +15,7 @@ use super::{
     render_panel_png, render_panel_svg, render_png, render_svg, ChartError, Panel,
     DEFAULT_HEIGHT_PX, DEFAULT_WIDTH_PX,
 };
-use crate::sweep::SecondAxis;
+use crate::sweep::{Grid, SecondAxis};
 use crate::transfer::Endpoints;
 use plotters::style::RGBColor;
 
@@ -42,6 +42,18 @@ fn polylines(svg: &str) -> Vec<(String, Vec<(f64, f64)>)> {
             (class, pts)
         })
         .collect()
+}
+
+/// Data coordinates to logical px on a chart of the default size, built
+/// from the grid's axes and the layout (not from the chart's own map).
+fn default_map(g: &Grid) -> Map {
+    Map {
+        xmin: g.depart.start_days,
+        xmax: g.depart.end_days(),
+        ymin: g.second.start_days,
+        ymax: g.second.end_days(),
+        plot: layout(DEFAULT_WIDTH_PX, DEFAULT_HEIGHT_PX).plot,
+    }
 }
 
 /// Contents of every `<text>` element, trimmed.
@@ -131,14 +143,7 @@ fn svg_holds_one_line_per_level_and_their_labels() {
 fn ridge_follows_the_180_degree_crossing_only() {
     let g = analytic_grid(SecondAxis::Arrival);
     let svg = render_svg(&spec(&g)).expect("svg");
-    let lay = layout(DEFAULT_WIDTH_PX, DEFAULT_HEIGHT_PX);
-    let map = Map {
-        xmin: g.depart.start_days,
-        xmax: g.depart.end_days(),
-        ymin: g.second.start_days,
-        ymax: g.second.end_days(),
-        plot: lay.plot,
-    };
+    let map = default_map(&g);
     let mut n = 0;
     for (class, pts) in polylines(&svg) {
         if class != "ridge" {
@@ -159,14 +164,7 @@ fn ridge_follows_the_180_degree_crossing_only() {
 fn blank_cells_carry_no_lines() {
     let g = analytic_grid(SecondAxis::Arrival);
     let svg = render_svg(&spec(&g)).expect("svg");
-    let lay = layout(DEFAULT_WIDTH_PX, DEFAULT_HEIGHT_PX);
-    let map = Map {
-        xmin: g.depart.start_days,
-        xmax: g.depart.end_days(),
-        ymin: g.second.start_days,
-        ymax: g.second.end_days(),
-        plot: lay.plot,
-    };
+    let map = default_map(&g);
     let mut near_block = 0;
     for (class, pts) in polylines(&svg) {
         if !["c3", "vinf", "ridge", "c3max"].contains(&class.as_str()) {
@@ -358,15 +356,8 @@ fn dla_panel_draws_one_labelled_family() {
     assert!(!t.iter().any(|x| x == "50°" || x == "-50°"));
     // Vertical: every point of a line sits at the departure date of
     // its level.
-    let lay = layout(DEFAULT_WIDTH_PX, DEFAULT_HEIGHT_PX);
     let d0 = g.depart.start_days;
-    let map = Map {
-        xmin: d0,
-        xmax: g.depart.end_days(),
-        ymin: g.second.start_days,
-        ymax: g.second.end_days(),
-        plot: lay.plot,
-    };
+    let map = default_map(&g);
     for (class, pts) in &lines {
         if class != "panel" {
             continue;
@@ -488,14 +479,7 @@ fn panels_leave_the_main_chart_alone_and_render_as_png() {
 #[test]
 fn panel_lines_stay_out_of_blank_cells() {
     let g = panel_grid();
-    let lay = layout(DEFAULT_WIDTH_PX, DEFAULT_HEIGHT_PX);
-    let map = Map {
-        xmin: g.depart.start_days,
-        xmax: g.depart.end_days(),
-        ymin: g.second.start_days,
-        ymax: g.second.end_days(),
-        plot: lay.plot,
-    };
+    let map = default_map(&g);
     for panel in Panel::ALL {
         let svg = render_panel_svg(&spec(&g), panel, &Endpoints::bare()).expect("svg");
         let mut n = 0;
