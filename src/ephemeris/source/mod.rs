@@ -21,6 +21,8 @@
 
 pub mod coverage;
 pub mod frame;
+pub mod spk;
 
 pub use coverage::Coverage;
 pub use frame::{obliquity_j2000_rad, Frame, OBLIQUITY_J2000_ARCSEC};
+pub use spk::{SegmentInfo, SpkBody, SpkError, SpkKernel};
