@@ -5,9 +5,8 @@
 //! segments, each a metadata block (`META_START` .. `META_STOP`: object,
 //! centre, frame, time system, time span, interpolation) followed by data
 //! lines `epoch x y z vx vy vz [ax ay az]` in km, km/s and km/s^2. This
-//! module reads the keyword = value (KVN) form ([`Oem::read`], in
-//! [`parse`]) and interpolates states as each segment's metadata says
-//! ([`Oem::state`]).
+//! module reads the keyword = value (KVN) form ([`Oem::read`]) and
+//! interpolates states as each segment's metadata says ([`Oem::state`]).
 //!
 //! Supported: `TIME_SYSTEM` TDB, TT, TAI, UTC, GPS (converted to TDB
 //! through [`crate::time`]); `REF_FRAME` ICRF, EME2000, J2000, GCRF (ICRF
@@ -400,8 +399,9 @@ impl Oem {
     /// # Method
     /// The last segment (in file order) whose useable span holds `t` is
     /// used. Its interpolation ([`Method`]) runs on the window of data
-    /// lines centred on `t` ([`interpolate::window`]): Lagrange on each of
-    /// the six components (barycentric form, Berrut & Trefethen 2004), or
+    /// lines centred on `t` (as many nodes on each side as the table's
+    /// ends allow): Lagrange on each of the six components (barycentric
+    /// form, Berrut & Trefethen 2004), or
     /// Hermite on positions with velocities as derivatives (Burden &
     /// Faires, sect. 3.4). Nodes outside the useable span but inside the
     /// segment are used, as the standard intends. The state is then

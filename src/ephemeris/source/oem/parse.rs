@@ -568,11 +568,9 @@ fn parse_epoch(text: &str, ts: TimeSystem) -> Result<Epoch, String> {
     let date = match parts.as_slice() {
         [y, m, d] if all_digits(y, 4) && all_digits(m, 2) && all_digits(d, 2) => date.to_string(),
         [y, doy] if all_digits(y, 4) && all_digits(doy, 3) => {
-            let year: i32 = y.parse().map_err(|_| bad())?;
-            let day: u32 = doy.parse().map_err(|_| bad())?;
-            let (m, d) = month_day(year, day)
-                .ok_or_else(|| format!("{text:?}: day of year {day} does not exist in {year}"))?;
-            format!("{y}-{m:02}-{d:02}")
+            let day: u16 = doy.parse().map_err(|_| bad())?;
+            calendar_date_of_day(y, day)
+                .ok_or_else(|| format!("{text:?}: day of year {day} does not exist in {y}"))?
         }
         _ => return Err(bad()),
     };
@@ -609,31 +607,17 @@ fn parse_epoch(text: &str, ts: TimeSystem) -> Result<Epoch, String> {
     })
 }
 
-/// Month and day of day-of-year `doy` (1-based) in `year` (Gregorian).
-fn month_day(year: i32, doy: u32) -> Option<(u32, u32)> {
-    let leap = (year % 4 == 0 && year % 100 != 0) || year % 400 == 0;
-    let lengths = [
-        31,
-        if leap { 29 } else { 28 },
-        31,
-        30,
-        31,
-        30,
-        31,
-        31,
-        30,
-        31,
-        30,
-        31,
-    ];
-    let mut left = doy;
-    for (i, len) in lengths.iter().enumerate() {
-        if left >= 1 && left <= *len {
-            return Some((i as u32 + 1, left));
-        }
-        left = left.checked_sub(*len)?;
-    }
-    None
+/// The calendar date `YYYY-MM-DD` of day-of-year `doy` (1-based) in the
+/// four-digit `year`, or `None` if that year has no such day.
+///
+/// # Method
+/// Day `doy` is `doy - 1` whole days after 1 January at 0h on the TDB
+/// scale, whose days all last 86400 s (no leap seconds); its calendar date
+/// is printed by [`Epoch::date_tdb`] and must still fall in `year`.
+fn calendar_date_of_day(year: &str, doy: u16) -> Option<String> {
+    let jan1 = Epoch::parse(&format!("{year}-01-01T00:00:00 TDB")).ok()?;
+    let date = jan1.plus_days(f64::from(doy.checked_sub(1)?)).date_tdb();
+    date.starts_with(year).then_some(date)
 }
 
 #[cfg(test)]
@@ -644,11 +628,14 @@ mod tests {
     /// leap year and 1 March otherwise; 366 exists only in leap years.
     #[test]
     fn day_of_year() {
-        assert_eq!(month_day(1996, 60), Some((2, 29)));
-        assert_eq!(month_day(1997, 60), Some((3, 1)));
-        assert_eq!(month_day(1996, 366), Some((12, 31)));
-        assert_eq!(month_day(1997, 366), None);
-        assert_eq!(month_day(1997, 0), None);
+        let date = |y: &str, d: u16| calendar_date_of_day(y, d);
+        assert_eq!(date("1996", 60).as_deref(), Some("1996-02-29"));
+        assert_eq!(date("1997", 60).as_deref(), Some("1997-03-01"));
+        assert_eq!(date("1996", 366).as_deref(), Some("1996-12-31"));
+        assert_eq!(date("2000", 366).as_deref(), Some("2000-12-31"));
+        assert_eq!(date("1900", 366), None);
+        assert_eq!(date("1997", 366), None);
+        assert_eq!(date("1997", 0), None);
     }
 
     /// Both epoch forms name the same instant; `Z` is allowed; GPS runs
