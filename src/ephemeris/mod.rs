@@ -22,6 +22,7 @@
 pub mod catalog;
 pub mod elements;
 pub mod kepler;
+pub mod source;
 
 pub use catalog::{synodic_period_days, Body, CatalogError, CentralBody, Pole, System};
 pub use elements::{ElementRates, MeanElements, StateError};
