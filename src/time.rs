@@ -367,6 +367,20 @@ impl Fields {
             }
             _ => TimeScale::TDB,
         };
+        // ISO 8601's zone designators ("Z" for UTC, "+02:00") are not read:
+        // synodic takes the scale as a word, so say how to write it.
+        if let Some(last) = words.last() {
+            let time_part = last.split_once(['T', 't']).map_or(*last, |(_, t)| t);
+            let zoned = time_part.contains(':')
+                && (time_part.ends_with(['Z', 'z']) || time_part.contains(['+', '-']));
+            if zoned {
+                return Err(syntax(
+                    "a time-zone designator (\"Z\" or an offset such as \"+02:00\") is not \
+                     read; for UTC write the scale as a word, e.g. \"2041-03-01T00:00:00 UTC\", \
+                     or leave it off for TDB",
+                ));
+            }
+        }
         let (date, time) = match words.as_slice() {
             [one] => match one.split_once(['T', 't']) {
                 Some((d, t)) => (d, Some(t)),
@@ -644,6 +658,23 @@ mod tests {
             .starts_with("\"2033-02-30\" is not a valid calendar date"));
         let err = Epoch::parse("2033-04-29T24:00:00").expect_err("hour 24");
         assert!(matches!(err, TimeError::InvalidDate { .. }), "{err}");
+    }
+
+    /// ISO 8601 zone designators get a message saying how to write the
+    /// scale, not a complaint about the digits of the second.
+    #[test]
+    fn zone_designators_are_explained() {
+        for text in [
+            "2041-03-01T00:00:00Z",
+            "2041-03-01T00:00:00z",
+            "2041-03-01T00:00:00+02:00",
+            "2041-03-01T00:00-05:00",
+        ] {
+            let msg = Epoch::parse(text).expect_err(text).to_string();
+            assert!(msg.contains("time-zone designator"), "{msg}");
+            assert!(msg.contains("2041-03-01T00:00:00 UTC"), "{msg}");
+            assert!(!msg.contains("two digits"), "{msg}");
+        }
     }
 
     #[test]

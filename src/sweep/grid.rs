@@ -35,8 +35,13 @@ impl Axis {
                 end_days,
             });
         }
-        // A hair of tolerance so that 0..10 step 0.1 includes 10.
-        let count = ((end_days - start_days) / step_days * (1.0 + 1e-12)).floor() as usize + 1;
+        // A hair of tolerance so that 0..10 step 0.1 includes 10, and
+        // SPAN_SLACK_DAYS so that a span given in UTC or TT keeps its last
+        // day: converted to TDB, its two ends differ by whole days plus the
+        // change of the periodic TDB - TT term between them (a few ms).
+        let count = ((end_days - start_days + SPAN_SLACK_DAYS) / step_days * (1.0 + 1e-12)).floor()
+            as usize
+            + 1;
         Ok(Axis {
             start_days,
             step_days,
@@ -60,6 +65,13 @@ impl Axis {
         (0..self.count).map(|i| self.value(i)).collect()
     }
 }
+
+/// How far (days) an axis may fall short of landing on its end and still
+/// include it: 10 ms, over the 3.3 ms peak-to-peak of the periodic
+/// TDB - TT term (amplitude 1.66 ms; Fairhead & Bretagnon 1990, from
+/// memory), which makes a UTC or TT span a few ms longer or shorter than
+/// whole TDB days.
+const SPAN_SLACK_DAYS: f64 = 0.01 / 86_400.0;
 
 /// Why an axis could not be built.
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]

@@ -9,4 +9,5 @@ mod examples;
 mod fuzz;
 mod study;
 mod sweep;
+mod trust;
 mod util;
