@@ -144,10 +144,10 @@ pub struct WindowsArgs {
     #[arg(long, value_name = "KM_S")]
     pub max_vinf_arrive: Option<f64>,
     /// Also search multi-revolution arcs with up to M revolutions.
-    #[arg(long, value_name = "M", default_value_t = 0)]
+    #[arg(long, value_name = "M", default_value_t = 0, allow_hyphen_values = true, value_parser = whole_number)]
     pub revs: u32,
     /// Length of a fixed-arrival-date launch period, in daily departures.
-    #[arg(long, value_name = "N", requires = "max_c3")]
+    #[arg(long, value_name = "N", requires = "max_c3", allow_hyphen_values = true, value_parser = whole_number)]
     pub launch_period_days: Option<u32>,
     /// Parking and capture orbits.
     #[command(flatten)]
@@ -195,7 +195,7 @@ pub struct SweepArgs {
     #[arg(long, value_name = "D[,D]", default_value = "1")]
     pub step_days: String,
     /// Also solve multi-revolution arcs with up to M revolutions.
-    #[arg(long, value_name = "M", default_value_t = 0)]
+    #[arg(long, value_name = "M", default_value_t = 0, allow_hyphen_values = true, value_parser = whole_number)]
     pub revs: u32,
     /// Worker threads (one per core when omitted). Results do not depend
     /// on it.
@@ -263,7 +263,7 @@ pub struct LambertArgs {
     #[arg(long, allow_hyphen_values = true, required_unless_present = "batch")]
     pub tof: Option<f64>,
     /// Also return solutions with up to this many complete revolutions.
-    #[arg(long, default_value_t = 0)]
+    #[arg(long, value_name = "M", default_value_t = 0, allow_hyphen_values = true, value_parser = whole_number)]
     pub revs: u32,
     /// Solve for retrograde motion (angular momentum along -z).
     #[arg(long)]
@@ -300,7 +300,7 @@ pub struct TransferArgs {
     #[command(flatten)]
     pub orbits: OrbitArgs,
     /// Also consider arcs with up to this many complete revolutions.
-    #[arg(long, default_value_t = 0)]
+    #[arg(long, value_name = "M", default_value_t = 0, allow_hyphen_values = true, value_parser = whole_number)]
     pub revs: u32,
     /// Print JSON instead of a table.
     #[arg(long)]
@@ -327,4 +327,12 @@ pub struct OrbitArgs {
         requires = "capture_alt_km"
     )]
     pub capture_ecc: f64,
+}
+
+/// A count given on the command line: a whole number >= 0, with a message
+/// in those words (clap's own would quote Rust's integer parser).
+fn whole_number(text: &str) -> Result<u32, String> {
+    text.trim()
+        .parse::<u32>()
+        .map_err(|_| format!("expected a whole number >= 0, got {text:?}"))
 }

@@ -367,7 +367,8 @@ impl System {
         let loc = Locator { text, file: source };
         let raw: RawSystem = toml::from_str(text).map_err(|e| {
             let line = e.span().map_or(1, |s| loc.line(s.start));
-            let mut message = e.message().trim().to_string();
+            let value = e.span().and_then(|s| text.get(s));
+            let mut message = crate::error::plain_toml_message(e.message(), value);
             // A missing key is reported at its table's header: say which.
             if let Some(header) = e.span().and_then(|s| loc.line_text(s.start)) {
                 if header.starts_with('[') {
