@@ -24,7 +24,9 @@ pub mod elements;
 pub mod kepler;
 
 pub use catalog::{synodic_period_days, Body, CatalogError, CentralBody, Pole, System};
-pub use elements::{ElementRates, MeanElements, StateError};
+pub use elements::{
+    ElementRates, ElementSet, EpochAngle, MeanElements, PeriapsisAngle, StateError,
+};
 pub use kepler::KeplerError;
 
 /// The astronomical unit, km (exact by definition).

@@ -200,8 +200,8 @@ fn system_semi_major_axis_without_a_finite_orbit() {
     }
     let text = edit(
         DEMO,
-        "peri_deg = 40.0",
-        "peri_deg = 40.0\nrates = { a_au = 1e308 }",
+        "lon_peri_deg = 40.0",
+        "lon_peri_deg = 40.0\nrates = { a_au = 1e308 }",
     );
     let line = format!("sys.toml:{}:", line_of(&text, "rates ="));
     system_rejected(
@@ -244,8 +244,8 @@ fn system_nan_and_infinity() {
         ),
         (
             "sys-inf-rate",
-            "peri_deg = 40.0",
-            "peri_deg = 40.0\nrates = { node_deg = inf }",
+            "lon_peri_deg = 40.0",
+            "lon_peri_deg = 40.0\nrates = { node_deg = inf }",
             "key `node_deg`",
         ),
     ];

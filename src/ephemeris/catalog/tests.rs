@@ -335,7 +335,7 @@ fn base() -> String {
         "e = 0.1",                // 9
         "i_deg = 1",              // 10 (an integer is accepted)
         "node_deg = 0.0",         // 11
-        "peri_deg = 0.0",         // 12
+        "lon_peri_deg = 0.0",     // 12
         "mean_lon_deg = 0.0",     // 13
     ]
     .join("\n")
@@ -400,8 +400,8 @@ fn semi_major_axis_not_positive() {
 #[test]
 fn non_finite_numbers() {
     assert_eq!(
-        error_of(&with_line(12, "peri_deg = nan")),
-        "t.toml:12: body \"Vell\": key `peri_deg`: must be a finite number, got NaN"
+        error_of(&with_line(12, "lon_peri_deg = nan")),
+        "t.toml:12: body \"Vell\": key `lon_peri_deg`: must be a finite number, got NaN"
     );
     assert_eq!(
         error_of(&with_line(5, "mu_km3_s2 = inf")),
