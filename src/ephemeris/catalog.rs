@@ -19,6 +19,7 @@ use toml::Spanned;
 use super::elements::{
     mean_motion_deg_per_century, ElementRates, ElementSet, EpochAngle, MeanElements, StateError,
 };
+use super::frame::Axes;
 use super::{AU_KM, JULIAN_CENTURY_DAYS};
 use crate::orbit::State;
 use crate::time::Epoch;
@@ -39,6 +40,13 @@ pub struct System {
     pub bodies: Vec<Body>,
     /// Where the system came from: the file path, or `built-in demo`.
     pub source: String,
+    /// The celestial pole of the file's `[frame]` (the pole of the equator
+    /// right ascensions are measured in), if given; without it the system
+    /// reference plane is the celestial equator.
+    pub celestial_pole: Option<Pole>,
+    /// The celestial frame ([`Axes::celestial`]): the system frame without
+    /// a `[frame]`.
+    pub celestial: Axes,
 }
 
 /// The central body of a system.
@@ -74,6 +82,10 @@ pub struct Body {
     pub radius_km: Option<f64>,
     /// Direction of the body's north pole, if given (for DLA/RLA).
     pub pole: Option<Pole>,
+    /// The body's equator frame ([`Axes::equator`]), in which asymptote
+    /// directions at this body are quoted: the celestial frame when the
+    /// body has no pole.
+    pub equator: Axes,
 }
 
 /// A direction in the system frame, as longitude and latitude.
@@ -169,9 +181,17 @@ pub enum CatalogError {
 struct RawSystem {
     name: Spanned<String>,
     epoch: Spanned<String>,
+    frame: Option<RawFrame>,
     central: RawCentral,
     #[serde(default)]
     body: Vec<Spanned<RawBody>>,
+}
+
+#[derive(Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawFrame {
+    celestial_pole_lon_deg: Spanned<f64>,
+    celestial_pole_lat_deg: Spanned<f64>,
 }
 
 #[derive(Deserialize)]
@@ -322,6 +342,28 @@ impl Locator<'_> {
         v.as_ref().map(|v| self.finite(v, context, key)).transpose()
     }
 
+    /// A direction given as longitude and latitude (keys `keys`): finite,
+    /// latitude in [-90, 90], longitude reduced to [0, 360).
+    fn pole(
+        &self,
+        lon: &Spanned<f64>,
+        lat: &Spanned<f64>,
+        context: &str,
+        keys: (&str, &str),
+    ) -> Result<Pole, CatalogError> {
+        let lon_deg = self.finite(lon, context, keys.0)?.rem_euclid(360.0);
+        let lat_deg = self.finite(lat, context, keys.1)?;
+        if !(-90.0..=90.0).contains(&lat_deg) {
+            return Err(self.invalid(
+                lat.span(),
+                context,
+                keys.1,
+                format!("must be in [-90, 90], got {lat_deg}"),
+            ));
+        }
+        Ok(Pole { lon_deg, lat_deg })
+    }
+
     fn name(&self, v: &Spanned<String>, context: &str) -> Result<String, CatalogError> {
         let name = v.get_ref().trim();
         if name.is_empty() {
@@ -421,6 +463,16 @@ impl System {
         let epoch = Epoch::parse(raw.epoch.get_ref())
             .map_err(|e| loc.invalid(raw.epoch.span(), "", "epoch", e.to_string()))?;
 
+        let celestial_pole = match &raw.frame {
+            Some(f) => Some(loc.pole(
+                &f.celestial_pole_lon_deg,
+                &f.celestial_pole_lat_deg,
+                "frame: ",
+                ("celestial_pole_lon_deg", "celestial_pole_lat_deg"),
+            )?),
+            None => None,
+        };
+        let celestial = Axes::celestial(celestial_pole.map(|p| p.unit_vector()).as_ref());
         let c = &raw.central;
         let central = CentralBody {
             name: loc.name(&c.name, "central: ")?,
@@ -453,7 +505,8 @@ impl System {
                     ),
                 ));
             }
-            let body = read_body(&loc, spanned, &ctx, body_name, central.mu_km3_s2)?;
+            let mut body = read_body(&loc, spanned, &ctx, body_name, central.mu_km3_s2)?;
+            body.equator = Axes::equator(&celestial, body.pole.map(|p| p.unit_vector()).as_ref());
             name_lines.push(loc.line(b.name.span().start));
             bodies.push(body);
         }
@@ -463,6 +516,8 @@ impl System {
             central,
             bodies,
             source: source.to_string(),
+            celestial_pole,
+            celestial,
         })
     }
 
@@ -781,17 +836,7 @@ fn read_body(
 
     let pole = match (&b.pole_lon_deg, &b.pole_lat_deg) {
         (Some(lon), Some(lat)) => {
-            let lon_deg = loc.finite(lon, ctx, "pole_lon_deg")?.rem_euclid(360.0);
-            let lat_deg = loc.finite(lat, ctx, "pole_lat_deg")?;
-            if !(-90.0..=90.0).contains(&lat_deg) {
-                return Err(loc.invalid(
-                    lat.span(),
-                    ctx,
-                    "pole_lat_deg",
-                    format!("must be in [-90, 90], got {lat_deg}"),
-                ));
-            }
-            Some(Pole { lon_deg, lat_deg })
+            Some(loc.pole(lon, lat, ctx, ("pole_lon_deg", "pole_lat_deg"))?)
         }
         (Some(lon), None) => {
             return Err(loc.invalid(
@@ -820,6 +865,8 @@ fn read_body(
         mu_km3_s2: mu_body,
         radius_km: loc.opt_positive(&b.radius_km, ctx, "radius_km")?,
         pole,
+        // Set by the caller, which knows the celestial frame.
+        equator: Axes::system(),
     })
 }
 
@@ -845,6 +892,8 @@ fn levenshtein(a: &str, b: &str) -> usize {
 
 mod angles;
 
+#[cfg(test)]
+mod frame_tests;
 #[cfg(test)]
 mod tests;
 #[cfg(test)]
