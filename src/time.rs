@@ -239,6 +239,28 @@ impl Epoch {
         }
     }
 
+    /// The fixed form of every date column synodic writes:
+    /// `YYYY-MM-DDThh:mm:ss`, TDB, rounded to the nearest second (no
+    /// fraction, no scale suffix). An epoch outside the printable range
+    /// prints as [`Epoch::to_iso_tdb`] does.
+    pub fn to_iso_seconds_tdb(&self) -> String {
+        if !self.days_tdb.is_finite() || self.days_tdb.abs() > MAX_CALENDAR_DAYS {
+            return self.uncalendared();
+        }
+        // Whole seconds, exact in f64 far beyond the printable range.
+        let seconds = (self.days_tdb * SECONDS_PER_DAY).round();
+        let whole = Epoch {
+            days_tdb: seconds / SECONDS_PER_DAY,
+        };
+        match whole.calendar_tdb() {
+            Some(c) => format!(
+                "{:04}-{:02}-{:02}T{:02}:{:02}:{:02}",
+                c.year, c.month, c.day, c.hour, c.minute, c.second
+            ),
+            None => self.uncalendared(),
+        }
+    }
+
     /// Calendar date on the TDB scale, `YYYY-MM-DD` (the day that contains
     /// the epoch rounded to the nearest millisecond).
     pub fn date_tdb(&self) -> String {
@@ -621,6 +643,19 @@ mod tests {
         assert!(Epoch::from_days_since_j2000_tdb(1e12)
             .to_iso_tdb()
             .starts_with("JD "));
+    }
+
+    /// The date-column form has whole seconds and no suffix; it rounds to
+    /// the nearest second and carries into the next day.
+    #[test]
+    fn seconds_form_rounds_to_the_second() {
+        let t = Epoch::parse("2033-04-29T23:59:59.6").expect("valid");
+        assert_eq!(t.to_iso_seconds_tdb(), "2033-04-30T00:00:00");
+        let t = Epoch::parse("2033-04-29T06:30:00.4").expect("valid");
+        assert_eq!(t.to_iso_seconds_tdb(), "2033-04-29T06:30:00");
+        assert!(Epoch::from_days_since_j2000_tdb(f64::NAN)
+            .to_iso_seconds_tdb()
+            .starts_with("invalid epoch"));
     }
 
     #[test]

@@ -22,13 +22,19 @@ pub struct Args {
 /// The subcommands.
 #[derive(Debug, Subcommand)]
 pub enum Command {
-    /// List a system's bodies: elements, periods and synodic periods.
+    /// List a system's bodies: elements, periods and synodic periods; with
+    /// --at, each body's position and velocity on a date.
     ///
-    /// Example: synodic bodies --system my-system.toml
+    /// Example: synodic bodies --system my-system.toml --at 2031-06-01
     Bodies {
         /// System file (TOML); the built-in demo system when omitted.
         #[arg(long, value_name = "FILE")]
         system: Option<PathBuf>,
+        /// Also print every body's position (km) and velocity (km/s) at
+        /// this date, in the system frame and, with a [frame], in the
+        /// celestial frame.
+        #[arg(long, value_name = "DATE")]
+        at: Option<String>,
         /// Print JSON instead of a table.
         #[arg(long)]
         json: bool,

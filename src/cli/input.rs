@@ -82,6 +82,16 @@ pub fn day_of(days_since_j2000_tdb: f64) -> String {
     Epoch::from_days_since_j2000_tdb(days_since_j2000_tdb).date_tdb()
 }
 
+/// A date for study files and screens: `YYYY-MM-DD` at TDB midnight, else
+/// `YYYY-MM-DDThh:mm:ss[.fff]` (TDB, to the millisecond, so a resolved
+/// study keeps the instant the user gave). Files of results use the fixed
+/// form of [`synodic::export::stamp`] instead.
+pub fn compact_date(days_since_j2000_tdb: f64) -> String {
+    let iso = Epoch::from_days_since_j2000_tdb(days_since_j2000_tdb).to_iso_tdb();
+    let iso = iso.trim_end_matches(" TDB");
+    iso.strip_suffix("T00:00:00").unwrap_or(iso).to_string()
+}
+
 /// Find two distinct bodies of `system` by name.
 pub fn body_pair(system: &System, from: &str, to: &str) -> CliResult<(usize, usize)> {
     let a = system.find(from)?;

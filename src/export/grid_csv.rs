@@ -5,9 +5,9 @@ use std::fmt::Write as _;
 
 use std::path::Path;
 
+use super::dates::{stamp, Stamp};
 use super::ExportError;
 use crate::sweep::{Axis, CellStatus, Grid, Layer, SecondAxis};
-use crate::time::{Epoch, J2000_JD};
 use crate::transfer::Endpoints;
 
 /// The header of `grid.csv`, units in the column names.
@@ -34,26 +34,15 @@ pub const GRID_COLUMNS: [&str; 20] = [
     "status",
 ];
 
-/// A date for a file: `YYYY-MM-DD` at TDB midnight, else
-/// `YYYY-MM-DDThh:mm:ss` (TDB).
-pub fn file_date(days_since_j2000_tdb: f64) -> String {
-    let iso = Epoch::from_days_since_j2000_tdb(days_since_j2000_tdb).to_iso_tdb();
-    let iso = iso.trim_end_matches(" TDB");
-    match iso.strip_suffix("T00:00:00") {
-        Some(date) => date.to_string(),
-        None => iso.to_string(),
-    }
-}
-
 /// Encode a grid as CSV, rows ordered by departure, then second axis, then
 /// layer. Figures of cells whose status is not ok are left empty.
 /// Numbers use fixed decimals, so equal grids give equal bytes.
 pub fn grid_csv(grid: &Grid, ends: &Endpoints) -> Vec<u8> {
-    let mut dates: HashMap<u64, String> = HashMap::new();
-    let mut date = |days: f64| -> String {
+    let mut dates: HashMap<u64, Stamp> = HashMap::new();
+    let mut date = |days: f64| -> Stamp {
         dates
             .entry(days.to_bits())
-            .or_insert_with(|| file_date(days))
+            .or_insert_with(|| stamp(days))
             .clone()
     };
     let n_layers = grid.layers.len();
@@ -63,8 +52,15 @@ pub fn grid_csv(grid: &Grid, ends: &Endpoints) -> Vec<u8> {
     for i in 0..grid.depart.count {
         for j in 0..grid.second.count {
             let (d, a) = grid.dates_days(i, j);
-            let (dj, aj) = (d + J2000_JD, a + J2000_JD);
-            let prefix = format!("{dj:.6},{aj:.6},{},{},{:.6}", date(d), date(a), a - d);
+            let (sd, sa) = (date(d), date(a));
+            let prefix = format!(
+                "{:.6},{:.6},{},{},{:.6}",
+                sd.jd_tdb,
+                sa.jd_tdb,
+                sd.date,
+                sa.date,
+                a - d
+            );
             for (l, layer) in grid.layers.iter().enumerate() {
                 let idx = grid.index(i, j, l);
                 let status = grid.status_at(idx);

@@ -324,7 +324,7 @@ pub struct ScanOptions {
 /// One opportunity of a scan and its optima.
 #[derive(Debug, Clone, PartialEq)]
 pub struct OpportunityWindow {
-    /// Label: the year of the best optimum's departure (TDB).
+    /// Label: the TDB date `YYYY-MM-DD` of the best optimum's departure.
     pub label: String,
     /// Hohmann phasing date at the window's centre, days past J2000 TDB.
     pub centre_days: f64,
@@ -462,12 +462,8 @@ pub fn scan(
             .or_else(|| best_of(&|_| true))
             .map_or(centres[k], |o| o.depart_days);
         windows.push(OpportunityWindow {
-            // Opportunities more than once a year are told apart by date.
-            label: if synodic >= 365.25 {
-                year_of(label_day)
-            } else {
-                file_date_of(label_day)
-            },
+            // Always text of one form, whatever the recurrence.
+            label: file_date_of(label_day),
             centre_days: centres[k],
             depart: (d_lo, d_hi),
             tof,
@@ -548,16 +544,8 @@ fn file_date_of(days: f64) -> String {
     Epoch::from_days_since_j2000_tdb(days).date_tdb()
 }
 
-/// The TDB calendar year of a date, as text.
-fn year_of(days: f64) -> String {
-    Epoch::from_days_since_j2000_tdb(days)
-        .date_tdb()
-        .chars()
-        .take(4)
-        .collect()
-}
-
-/// Two opportunities labelled with the same year become `2031a`, `2031b`.
+/// Two opportunities labelled with the same date become `2031-04-02a`,
+/// `2031-04-02b` (only when opportunities recur within days).
 fn disambiguate_labels(windows: &mut [OpportunityWindow]) {
     let labels: Vec<String> = windows.iter().map(|w| w.label.clone()).collect();
     for (k, w) in windows.iter_mut().enumerate() {

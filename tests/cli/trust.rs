@@ -43,3 +43,259 @@ fn spans_in_utc_tt_and_tai_keep_their_last_day() {
         );
     }
 }
+
+// ---------------------------------------------------------------------
+// Dates one way: every date column of every CSV and JSON output.
+
+/// The Julian date (TDB) of a date column, read by an independent strict
+/// ISO 8601 parser (the `time` crate, exactly `YYYY-MM-DDThh:mm:ss`, no
+/// fraction, no zone) and its Julian day number (the day count that starts
+/// at noon: JD = JDN - 0.5 + seconds of the day / 86400).
+fn strict_jd(date: &str) -> f64 {
+    let format = time::macros::format_description!("[year]-[month]-[day]T[hour]:[minute]:[second]");
+    let t = time::PrimitiveDateTime::parse(date, &format)
+        .unwrap_or_else(|e| panic!("{date:?} is not YYYY-MM-DDThh:mm:ss: {e}"));
+    let seconds =
+        f64::from(t.hour()) * 3600.0 + f64::from(t.minute()) * 60.0 + f64::from(t.second());
+    f64::from(t.date().to_julian_day()) - 0.5 + seconds / 86400.0
+}
+
+/// Half a second, the rounding of a date to the second, plus the JD's
+/// printed rounding cannot add since the date is made from the printed JD;
+/// 1e-9 day covers the float reading of the JD.
+const HALF_SECOND_DAYS: f64 = 0.5 / 86400.0 + 1e-9;
+
+fn looks_like_date(s: &str) -> bool {
+    let b = s.as_bytes();
+    b.len() >= 10 && b[..4].iter().all(u8::is_ascii_digit) && b[4] == b'-'
+}
+
+/// An opportunity label: `YYYY-MM-DD`, optionally with one letter.
+fn check_label(where_: &str, label: &str) {
+    let (date, rest) = label.split_at(label.len().min(10));
+    assert!(
+        rest.len() <= 1 && rest.chars().all(|c| c.is_ascii_lowercase()),
+        "{where_}: opportunity label {label:?}"
+    );
+    strict_jd(&format!("{date}T00:00:00"));
+}
+
+/// Check one date against its Julian date; counts the checks.
+fn check_pair(where_: &str, date: &str, jd: f64, checked: &mut usize) {
+    let from_date = strict_jd(date);
+    assert!(
+        (from_date - jd).abs() <= HALF_SECOND_DAYS,
+        "{where_}: {date} is JD {from_date}, the file says {jd} ({} s apart)",
+        (from_date - jd) * 86400.0
+    );
+    *checked += 1;
+}
+
+/// Every `X_date` string of a JSON value against its `X_jd_tdb`; axes'
+/// `start`/`end` against `start_jd_tdb`/`end_jd_tdb`; labels in one form;
+/// no other string that looks like a date.
+fn check_json(where_: &str, v: &serde_json::Value, checked: &mut usize) {
+    match v {
+        serde_json::Value::Array(items) => {
+            for item in items {
+                check_json(where_, item, checked);
+            }
+        }
+        serde_json::Value::Object(map) => {
+            for (k, val) in map {
+                let partner = if let Some(stem) = k.strip_suffix("_date") {
+                    Some(format!("{stem}_jd_tdb"))
+                } else if (k == "start" || k == "end") && map.contains_key(&format!("{k}_jd_tdb")) {
+                    Some(format!("{k}_jd_tdb"))
+                } else {
+                    None
+                };
+                match (val, partner) {
+                    (serde_json::Value::String(s), Some(p)) => {
+                        let jd = map
+                            .get(&p)
+                            .and_then(serde_json::Value::as_f64)
+                            .unwrap_or_else(|| panic!("{where_}: {k} has no {p} beside it"));
+                        check_pair(&format!("{where_} {k}"), s, jd, checked);
+                    }
+                    (serde_json::Value::Null, Some(p)) => {
+                        assert!(
+                            map.get(&p).is_none_or(serde_json::Value::is_null),
+                            "{where_}: {p} without {k}"
+                        );
+                    }
+                    (serde_json::Value::String(s), None) if k == "opportunity" => {
+                        check_label(where_, s)
+                    }
+                    (serde_json::Value::String(s), None) => {
+                        assert!(
+                            !looks_like_date(s),
+                            "{where_}: {k} = {s:?} is a date without its JD"
+                        );
+                    }
+                    _ => check_json(where_, val, checked),
+                }
+            }
+        }
+        _ => {}
+    }
+}
+
+/// Every `X_date` column of a CSV file against its `X_jd_tdb` column.
+fn check_csv(where_: &str, text: &str, checked: &mut usize) {
+    let mut r = csv::Reader::from_reader(text.as_bytes());
+    let header: Vec<String> = r
+        .headers()
+        .expect("header")
+        .iter()
+        .map(String::from)
+        .collect();
+    let col = |name: &str| header.iter().position(|h| h == name);
+    for rec in r.records() {
+        let rec = rec.expect("CSV row");
+        for (i, name) in header.iter().enumerate() {
+            let cell = &rec[i];
+            if let Some(stem) = name.strip_suffix("_date") {
+                let j = col(&format!("{stem}_jd_tdb"))
+                    .unwrap_or_else(|| panic!("{where_}: {name} has no {stem}_jd_tdb column"));
+                if cell.is_empty() {
+                    assert!(rec[j].is_empty(), "{where_}: {stem}_jd_tdb without {name}");
+                    continue;
+                }
+                let jd: f64 = rec[j].parse().expect("JD is a number");
+                check_pair(&format!("{where_} {name}"), cell, jd, checked);
+            } else if name == "opportunity" {
+                check_label(where_, cell);
+            } else {
+                assert!(
+                    !looks_like_date(cell),
+                    "{where_}: {name} = {cell:?} is a date without its JD"
+                );
+            }
+        }
+    }
+}
+
+/// Every output file below `dir` (CSV and JSON).
+fn check_outputs(d: &Dir, dir: &str, checked: &mut usize) {
+    for rel in crate::util::tree(&d.join(dir)) {
+        let path = d.join(dir).join(&rel);
+        let text = std::fs::read_to_string(&path).unwrap_or_default();
+        let where_ = format!("{dir}/{rel}");
+        if rel.ends_with(".csv") {
+            check_csv(&where_, &text, checked);
+        } else if rel.ends_with(".json") && !rel.ends_with("run-info.json") {
+            let v: serde_json::Value = serde_json::from_str(&text).expect("JSON");
+            check_json(&where_, &v, checked);
+        }
+    }
+}
+
+/// Dates one way (issue 9): every date column of every CSV and JSON
+/// output, and of the JSON printed by every command, reads with a strict
+/// ISO parser as `YYYY-MM-DDThh:mm:ss` and lies within 0.5 s of the Julian
+/// date beside it; opportunity labels are `YYYY-MM-DD` text.
+#[test]
+fn every_date_column_parses_strictly_and_matches_its_julian_date() {
+    let d = Dir::new("dates");
+    let mut checked = 0usize;
+    // A sweep with multi-revolution layers (grid.csv, windows.csv, summary).
+    d.run(&[
+        "sweep",
+        "Teodra",
+        "Kesh",
+        "--depart",
+        "2032-05-01 UTC..2032-09-30 UTC",
+        "--tof-days",
+        "150..450",
+        "--step-days",
+        "7",
+        "--revs",
+        "1",
+        "--quiet",
+        "--out",
+        "sw",
+    ])
+    .ok();
+    check_outputs(&d, "sw", &mut checked);
+    // A window scan with launch periods (span-windows.*, daily tables).
+    d.run(&[
+        "windows",
+        "Teodra",
+        "Kesh",
+        "--span",
+        "2030-01-01..2034-06-01",
+        "--max-c3",
+        "16",
+        "--launch-period-days",
+        "7",
+        "--out",
+        "wi/span.csv",
+    ])
+    .ok();
+    check_outputs(&d, "wi", &mut checked);
+    // A moon system: opportunities every few days.
+    let root = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("examples/moon-tour");
+    for name in ["study.toml", "durrah-moons.toml"] {
+        std::fs::copy(root.join(name), d.join(name)).expect("copy example");
+    }
+    d.run(&["run", "study.toml", "--quiet", "--out", "moon"])
+        .ok();
+    check_outputs(&d, "moon", &mut checked);
+    // JSON on stdout.
+    for args in [
+        vec![
+            "transfer",
+            "Teodra",
+            "Kesh",
+            "--depart",
+            "2032-07-22T18:41:00",
+            "--arrive",
+            "2033-02-24 UTC",
+            "--json",
+        ],
+        vec!["bodies", "--json", "--at", "2031-06-01T06:00:00 TT"],
+        vec![
+            "windows",
+            "Teodra",
+            "Kesh",
+            "--span",
+            "2032-01-01..2033-01-01",
+            "--max-c3",
+            "16",
+            "--launch-period-days",
+            "3",
+            "--json",
+        ],
+        vec![
+            "sweep",
+            "--depart",
+            "2032-06-01..2032-08-01",
+            "--tof-days",
+            "150..400",
+            "--step-days",
+            "10",
+            "--json",
+            "--quiet",
+            "--out",
+            "js",
+        ],
+    ] {
+        let r = d.run(&args).ok();
+        let v: serde_json::Value = serde_json::from_str(&r.stdout).expect("JSON on stdout");
+        check_json(&args.join(" "), &v, &mut checked);
+    }
+    // Not vacuous: thousands of grid rows and every kind of table.
+    assert!(checked > 5000, "{checked} dates checked");
+}
+
+/// The strict parser of the date test: J2000.0 = 2000-01-01T12:00:00 is JD
+/// 2451545.0 (IAU definition), and the forms the issue complained of (a
+/// bare date, a fraction, a zone) are refused, so the test above can fail.
+#[test]
+fn strict_date_parser_anchors() {
+    assert!((strict_jd("2000-01-01T12:00:00") - 2451545.0).abs() < 1e-12);
+    for bad in ["2032-03-01", "2032-03-01T00:00:00.5", "2032-03-01T00:00:00Z", "2032-03-01 00:00:00"] {
+        assert!(std::panic::catch_unwind(|| strict_jd(bad)).is_err(), "{bad} accepted");
+    }
+}

@@ -12,14 +12,14 @@ use std::time::Instant;
 
 use serde::Serialize;
 use synodic::ephemeris::System;
-use synodic::export::{ensure_dir, file_date, write_atomic};
+use synodic::export::{ensure_dir, write_atomic};
 use synodic::opportunity::{hohmann_tof_days, next_opportunity};
 use synodic::study::{locate, relative_path, Study, SweepSection};
 use synodic::sweep::{Axis, SecondAxis, SweepError, SweepSpec};
 use synodic::time::parse_span;
 
 use super::{print, sweep, windows};
-use crate::cli::input::{resolve_endpoints, sha256_hex};
+use crate::cli::input::{compact_date, resolve_endpoints, sha256_hex};
 use crate::cli::{CliResult, Outcome};
 
 /// Where a study came from, for messages that point at the right place.
@@ -106,7 +106,7 @@ fn midnight(days: f64) -> f64 {
 }
 
 fn span_text(a: f64, b: f64) -> String {
-    format!("{}..{}", file_date(a), file_date(b))
+    format!("{}..{}", compact_date(a), compact_date(b))
 }
 
 /// Fill a sweep section's defaults for one pair and normalise its dates.

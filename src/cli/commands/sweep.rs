@@ -11,14 +11,15 @@ use synodic::chart::{
     DEFAULT_HEIGHT_PX, DEFAULT_WIDTH_PX,
 };
 use synodic::ephemeris::System;
-use synodic::export::{ensure_dir, file_date, grid_csv, windows_csv, write_atomic, WindowRecord};
+use synodic::export::{
+    ensure_dir, file_date, grid_csv, stamp, windows_csv, write_atomic, WindowRecord,
+};
 use synodic::study::{
     relative_path, ChartSection, Limits, Orbits, Outputs, Pair, Study, SweepSection,
 };
 use synodic::sweep::{
     grid_minima, sweep, Axis, CellStatus, Grid, Layer, Objective, RunOptions, SecondAxis, SweepSpec,
 };
-use synodic::time::J2000_JD;
 use synodic::transfer::Leg;
 use synodic::windows::{optima_of_grid, Borders, Bounds, Optimum};
 
@@ -39,7 +40,11 @@ processes and applicable standards.";
 struct AxisOut {
     kind: &'static str,
     start: String,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    start_jd_tdb: Option<f64>,
     end: String,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    end_jd_tdb: Option<f64>,
     step_days: f64,
     count: usize,
 }
@@ -277,7 +282,8 @@ pub fn run_grid(
         let records: Vec<WindowRecord> = optima
             .iter()
             .map(|o| {
-                let label: String = file_date(o.depart_days).chars().take(4).collect();
+                let label =
+                    synodic::time::Epoch::from_days_since_j2000_tdb(o.depart_days).date_tdb();
                 WindowRecord::new(&label, o, Objective::C3, false, None, None)
             })
             .collect();
@@ -314,10 +320,7 @@ fn refined_screen(optima: &[Optimum]) -> String {
     );
     for opt in optima {
         let f = &opt.figures;
-        let when = |d: f64| {
-            let t = synodic::export::table_date(d).replacen('T', " ", 1);
-            t.get(..16).unwrap_or(&t).to_string()
-        };
+        let when = |d: f64| minute(&file_date(d));
         let flags: Vec<&str> = [(opt.ridge, "ridge"), (opt.edge, "edge")]
             .into_iter()
             .filter_map(|(on, name)| on.then_some(name))
@@ -485,11 +488,12 @@ fn axis_out(axis: &Axis, kind: SecondAxis, is_depart: bool) -> AxisOut {
     let dated = is_depart || kind == SecondAxis::Arrival;
     let show = |d: f64| {
         if dated {
-            file_date(d)
+            stamp(d).date
         } else {
             format!("{d}")
         }
     };
+    let jd = |d: f64| dated.then(|| stamp(d).jd_tdb);
     AxisOut {
         kind: if is_depart {
             "departure date (TDB)"
@@ -499,7 +503,9 @@ fn axis_out(axis: &Axis, kind: SecondAxis, is_depart: bool) -> AxisOut {
             "time of flight (days)"
         },
         start: show(axis.start_days),
+        start_jd_tdb: jd(axis.start_days),
         end: show(axis.end_days()),
+        end_jd_tdb: jd(axis.end_days()),
         step_days: axis.step_days,
         count: axis.count,
     }
@@ -523,10 +529,10 @@ fn summarise(system: &System, spec: &SweepSpec, provenance: &Provenance, grid: &
                 revs: layer.revs,
                 branch: layer.branch.to_string(),
                 value: m.value,
-                depart_date: file_date(d),
-                arrive_date: file_date(a),
-                depart_jd_tdb: d + J2000_JD,
-                arrive_jd_tdb: a + J2000_JD,
+                depart_date: stamp(d).date,
+                arrive_date: stamp(a).date,
+                depart_jd_tdb: stamp(d).jd_tdb,
+                arrive_jd_tdb: stamp(a).jd_tdb,
                 tof_days: a - d,
                 c3_km2_s2: vd * vd,
                 vinf_arrive_km_s: va,
@@ -594,7 +600,7 @@ fn screen(s: &Summary, elapsed_s: f64) -> String {
     let _ = writeln!(o, "\nGrid minima (refine with a finer step)");
     let _ = writeln!(
         o,
-        "  {:<12} {:<4} {:>4} {:<6} {:>10}  {:<10}  {:<10}  {:>8}  {:>9}  {:>9}  {:>9}",
+        "  {:<12} {:<4} {:>4} {:<6} {:>10}  {:<16}  {:<16}  {:>8}  {:>9}  {:>9}  {:>9}",
         "objective",
         "type",
         "revs",
@@ -610,14 +616,14 @@ fn screen(s: &Summary, elapsed_s: f64) -> String {
     for m in &s.minima {
         let _ = writeln!(
             o,
-            "  {:<12} {:<4} {:>4} {:<6} {:>10.4}  {:<10}  {:<10}  {:>8.1}  {:>9.4}  {:>9.4}  {:>9.4}",
+            "  {:<12} {:<4} {:>4} {:<6} {:>10.4}  {:<16}  {:<16}  {:>8.1}  {:>9.4}  {:>9.4}  {:>9.4}",
             m.objective,
             m.kind,
             m.revs,
             m.branch,
             m.value,
-            m.depart_date,
-            m.arrive_date,
+            minute(&m.depart_date),
+            minute(&m.arrive_date),
             m.tof_days,
             m.c3_km2_s2,
             m.vinf_arrive_km_s,
@@ -626,4 +632,10 @@ fn screen(s: &Summary, elapsed_s: f64) -> String {
     }
     let _ = writeln!(o, "  (C3 km^2/s^2; speeds and delta-v km/s; dates TDB)\n");
     o
+}
+
+/// `YYYY-MM-DD hh:mm` of a date column, for screens.
+fn minute(date: &str) -> String {
+    let d = date.replacen('T', " ", 1);
+    d.get(..16).unwrap_or(&d).to_string()
 }

@@ -3,6 +3,7 @@
 use std::fmt::Write as _;
 
 use serde::Serialize;
+use synodic::export::stamp;
 use synodic::orbit::{conic_from_state, State};
 use synodic::transfer::{arcs_between, Figures};
 
@@ -46,9 +47,9 @@ struct Report {
     system: String,
     from: String,
     to: String,
-    depart: String,
-    arrive: String,
+    depart_date: String,
     depart_jd_tdb: f64,
+    arrive_date: String,
     arrive_jd_tdb: f64,
     arcs: Vec<ArcOut>,
 }
@@ -93,10 +94,10 @@ pub fn run(args: &TransferArgs) -> CliResult<Outcome> {
         system: system.name.clone(),
         from: system.bodies[from].name.clone(),
         to: system.bodies[to].name.clone(),
-        depart: depart.to_iso_tdb(),
-        arrive: arrive.to_iso_tdb(),
-        depart_jd_tdb: depart.jd_tdb(),
-        arrive_jd_tdb: arrive.jd_tdb(),
+        depart_date: stamp(depart.days_since_j2000_tdb()).date,
+        depart_jd_tdb: stamp(depart.days_since_j2000_tdb()).jd_tdb,
+        arrive_date: stamp(arrive.days_since_j2000_tdb()).date,
+        arrive_jd_tdb: stamp(arrive.days_since_j2000_tdb()).jd_tdb,
         arcs: out,
     };
     if args.json {
@@ -145,8 +146,16 @@ fn orbit_line(o: Option<&OrbitOut>, first: bool) -> String {
 fn table(r: &Report) -> String {
     let mut s = String::new();
     let _ = writeln!(s, "{} -> {}  ({})", r.from, r.to, r.system);
-    let _ = writeln!(s, "depart   {}  (JD {:.6} TDB)", r.depart, r.depart_jd_tdb);
-    let _ = writeln!(s, "arrive   {}  (JD {:.6} TDB)", r.arrive, r.arrive_jd_tdb);
+    let _ = writeln!(
+        s,
+        "depart   {} TDB  (JD {:.6} TDB)",
+        r.depart_date, r.depart_jd_tdb
+    );
+    let _ = writeln!(
+        s,
+        "arrive   {} TDB  (JD {:.6} TDB)",
+        r.arrive_date, r.arrive_jd_tdb
+    );
     for a in &r.arcs {
         let _ = writeln!(
             s,
