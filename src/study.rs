@@ -46,6 +46,9 @@
 //! chart = true
 //! windows = true
 //! ```
+//!
+//! A top-level `allow_flagged = true` (before the first table) lets arcs
+//! flagged `periapsis-inside` or `relativistic` be optima.
 
 use std::path::{Path, PathBuf};
 
@@ -87,6 +90,15 @@ pub struct Study {
     /// Which files to write.
     #[serde(default)]
     pub outputs: Outputs,
+    /// Let arcs flagged `periapsis-inside` or `relativistic` be chosen as
+    /// optima and counted in launch periods (default false: they are kept
+    /// in the grid but passed over).
+    #[serde(default, skip_serializing_if = "is_false")]
+    pub allow_flagged: bool,
+}
+
+fn is_false(b: &bool) -> bool {
+    !*b
 }
 
 /// Chart options of a study.

@@ -22,10 +22,14 @@
 
 use nalgebra::Vector3;
 
-use crate::ephemeris::{Axes, Body, Pole, System};
+use crate::ephemeris::{Axes, Body, CentralBody, Pole, System};
 use crate::lambert::{self, Branch, Direction, LambertError, LambertProblem, LambertSolution};
 use crate::orbit::State;
 use crate::time::Epoch;
+
+mod flags;
+
+pub use flags::{periapsis_km, ArcFlags, RELATIVISTIC_SPEED_KM_S, SPEED_OF_LIGHT_KM_S};
 
 /// Mission-design classification of a transfer by its transfer angle.
 ///
@@ -415,21 +419,35 @@ pub struct Figures {
     pub dv_arrive_km_s: f64,
     /// Total delta-v, km/s.
     pub dv_total_km_s: f64,
+    /// Sanity flags of the arc ([`ArcFlags`]).
+    pub flags: ArcFlags,
 }
 
 impl Figures {
-    /// The figures of one Lambert arc from `depart` to `arrive`.
+    /// The figures of one Lambert arc from `depart` to `arrive` around
+    /// `central`.
     ///
     /// `depart` and `arrive` are the bodies' states at the departure and
     /// arrival epochs; `solution` is an arc between their positions taking
     /// `tof_days`.
     pub fn from_arc(
         ends: &Endpoints,
+        central: &CentralBody,
         depart: &State,
         arrive: &State,
         tof_days: f64,
         solution: &LambertSolution,
     ) -> Figures {
+        let flags = ArcFlags::of_arc(
+            &depart.r_km,
+            depart.r_km.norm(),
+            &solution.v1,
+            &solution.v2,
+            solution.transfer_angle_rad,
+            solution.revs,
+            central.mu_km3_s2,
+            central.radius_km,
+        );
         let vinf_depart = solution.v1 - depart.v_km_s;
         let vinf_arrive = solution.v2 - arrive.v_km_s;
         let a = Asymptotes::of_arc(ends, depart, arrive, solution);
@@ -457,6 +475,7 @@ impl Figures {
             dv_depart_km_s: dv_d,
             dv_arrive_km_s: dv_a,
             dv_total_km_s: dv_d + dv_a,
+            flags,
         }
     }
 }
@@ -516,9 +535,19 @@ pub struct Leg<'a> {
     pub to: usize,
     /// Parking and capture orbits, asymptote frames.
     pub ends: Endpoints,
+    /// Let arcs flagged `periapsis-inside` or `relativistic` be optima and
+    /// open launch periods (normally they are kept out: [`Leg::admits`]).
+    pub allow_flagged: bool,
 }
 
 impl Leg<'_> {
+    /// Whether `figures` may be an optimum or open a launch period: not
+    /// when its flags exclude it ([`ArcFlags::excludes`]), unless
+    /// [`Leg::allow_flagged`].
+    pub fn admits(&self, figures: &Figures) -> bool {
+        self.allow_flagged || !figures.flags.excludes()
+    }
+
     /// The figures of the arc with `revs` revolutions on `branch` from
     /// `depart_days` to `arrive_days` (days past J2000 TDB), or `None`
     /// when no such arc exists (arrival not after departure, degenerate
@@ -567,7 +596,14 @@ impl Leg<'_> {
                 .into_iter()
                 .find(|s| s.branch == branch)?
         };
-        Some(Figures::from_arc(&self.ends, &s1, &s2, tof_days, &sol))
+        Some(Figures::from_arc(
+            &self.ends,
+            &self.system.central,
+            &s1,
+            &s2,
+            tof_days,
+            &sol,
+        ))
     }
 }
 
@@ -608,7 +644,10 @@ pub fn arcs_between(
     let solutions = lambert::solve(&problem)?;
     Ok(solutions
         .into_iter()
-        .map(|sol| (Figures::from_arc(ends, &s1, &s2, tof_days, &sol), sol))
+        .map(|sol| {
+            let f = Figures::from_arc(ends, &system.central, &s1, &s2, tof_days, &sol);
+            (f, sol)
+        })
         .collect())
 }
 

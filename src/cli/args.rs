@@ -174,6 +174,10 @@ pub struct WindowsArgs {
     /// Also save this run as a study file, to repeat it with `synodic run`.
     #[arg(long, value_name = "FILE")]
     pub save_study: Option<PathBuf>,
+    /// Let arcs flagged periapsis-inside or relativistic be optima and
+    /// count in launch periods.
+    #[arg(long)]
+    pub allow_flagged: bool,
 }
 
 /// Arguments of `synodic sweep`.
@@ -241,6 +245,9 @@ pub struct SweepArgs {
     /// dla, arrive-dec, dv-total.
     #[arg(long, value_name = "LIST", value_delimiter = ',')]
     pub show: Vec<String>,
+    /// Let arcs flagged periapsis-inside or relativistic be optima.
+    #[arg(long)]
+    pub allow_flagged: bool,
 }
 
 /// Arguments of `synodic lambert`.

@@ -8,10 +8,10 @@ use std::path::Path;
 use super::dates::{stamp, Stamp};
 use super::ExportError;
 use crate::sweep::{Axis, CellStatus, Grid, Layer, SecondAxis};
-use crate::transfer::Endpoints;
+use crate::transfer::{ArcFlags, Endpoints};
 
 /// The header of `grid.csv`, units in the column names.
-pub const GRID_COLUMNS: [&str; 20] = [
+pub const GRID_COLUMNS: [&str; 21] = [
     "depart_jd_tdb",
     "arrive_jd_tdb",
     "depart_date",
@@ -32,10 +32,12 @@ pub const GRID_COLUMNS: [&str; 20] = [
     "dv_arrive_km_s",
     "dv_total_km_s",
     "status",
+    "flags",
 ];
 
 /// Encode a grid as CSV, rows ordered by departure, then second axis, then
-/// layer. Figures of cells whose status is not ok are left empty.
+/// layer. Figures of cells whose status is not ok are left empty; `flags`
+/// holds the cell's sanity flags ([`ArcFlags`], `;`-separated).
 /// Numbers use fixed decimals, so equal grids give equal bytes.
 pub fn grid_csv(grid: &Grid, ends: &Endpoints) -> Vec<u8> {
     let mut dates: HashMap<u64, Stamp> = HashMap::new();
@@ -90,6 +92,8 @@ pub fn grid_csv(grid: &Grid, ends: &Endpoints) -> Vec<u8> {
                     out.push_str(",,,,,,,,,,,,");
                 }
                 out.push_str(status.as_str());
+                out.push(',');
+                out.push_str(&grid.flags_at(idx).to_text());
                 out.push('\n');
             }
         }
@@ -168,6 +172,9 @@ pub fn read_grid_csv(
             }
         };
         grid.status[k] = status as u8;
+        grid.flags[k] = ArcFlags::parse(f[20])
+            .ok_or_else(|| err(line, format!("column `flags`: unknown value {:?}", f[20])))?
+            .bits();
         if status == CellStatus::Ok {
             let num = |c: usize| -> Result<f64, ExportError> {
                 f[c].parse::<f64>()

@@ -59,7 +59,9 @@ pub struct WindowRecord {
     pub objective_value: f64,
     /// Its value at the grid cell the refinement started from.
     pub grid_value: f64,
-    /// `ridge`, `edge`, `over-limit`, separated by `;` (empty: none).
+    /// `ridge`, `edge`, `over-limit` and the arc's sanity flags
+    /// (`periapsis-inside`, `hyperbolic`, `relativistic`), separated by `;`
+    /// (empty: none).
     pub flags: String,
     /// First open departure date under the C3 ceiling.
     pub launch_first_date: Option<String>,
@@ -104,6 +106,7 @@ impl WindowRecord {
         if over_limit {
             flags.push("over-limit");
         }
+        flags.extend(opt.figures.flags.names());
         let round = |x: f64, k: i32| {
             let s = 10f64.powi(k);
             (x * s).round() / s

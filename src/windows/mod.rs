@@ -22,9 +22,7 @@ mod simplex;
 pub use simplex::{golden, nelder_mead, Minimum2};
 
 use crate::opportunity::next_opportunity;
-use crate::sweep::{
-    self, Axis, CellStatus, Grid, Layer, Objective, RunOptions, SecondAxis, SweepSpec,
-};
+use crate::sweep::{self, Axis, Grid, Layer, Objective, RunOptions, SecondAxis, SweepSpec};
 use crate::time::Epoch;
 use crate::transfer::{Figures, Leg, TransferType};
 
@@ -103,9 +101,10 @@ pub struct Candidate {
     pub border: bool,
 }
 
-/// Local minima of `objective` on `grid`: ok cells no higher than any ok
-/// neighbour (of the 8) of the same layer and Type. Sorted by layer, Type,
-/// then value.
+/// Local minima of `objective` on `grid`: usable cells ([`Grid::usable`]:
+/// ok, and not flagged `periapsis-inside` or `relativistic` unless the leg
+/// allows flagged arcs) no higher than any usable neighbour (of the 8) of
+/// the same layer and Type. Sorted by layer, Type, then value.
 pub fn grid_candidates(grid: &Grid, leg: &Leg<'_>, objective: Objective) -> Vec<Candidate> {
     let (ni, nj) = (grid.depart.count, grid.second.count);
     let mut out = Vec::new();
@@ -120,7 +119,7 @@ pub fn grid_candidates(grid: &Grid, leg: &Leg<'_>, objective: Objective) -> Vec<
         for i in 0..ni {
             for j in 0..nj {
                 let idx = grid.index(i, j, l);
-                if grid.status[idx] != CellStatus::Ok as u8 {
+                if !grid.usable(idx, leg.allow_flagged) {
                     continue;
                 }
                 let kind = grid.kind_at(idx);
@@ -137,7 +136,7 @@ pub fn grid_candidates(grid: &Grid, leg: &Leg<'_>, objective: Objective) -> Vec<
                             continue;
                         }
                         let n = grid.index(ii as usize, jj as usize, l);
-                        if grid.status[n] != CellStatus::Ok as u8 {
+                        if !grid.usable(n, leg.allow_flagged) {
                             continue;
                         }
                         if grid.kind_at(n) != kind {
@@ -180,7 +179,7 @@ pub fn grid_candidates(grid: &Grid, leg: &Leg<'_>, objective: Objective) -> Vec<
 /// # Method
 /// Nelder-Mead ([`nelder_mead`]) in (departure, arrival) with a first
 /// simplex of one grid step; infeasible points (outside `bounds`, other
-/// Type, no arc) count as +infinity.
+/// Type, no arc, an arc the leg does not admit) count as +infinity.
 pub fn refine(
     leg: &Leg<'_>,
     grid: &Grid,
@@ -195,7 +194,7 @@ pub fn refine(
             return f64::INFINITY;
         }
         match leg.figures(layer.revs, layer.branch, x[0], x[1]) {
-            Some(f) if f.kind == c.kind => {
+            Some(f) if f.kind == c.kind && leg.admits(&f) => {
                 objective.value(&leg.ends, f.vinf_depart_km_s, f.vinf_arrive_km_s)
             }
             _ => f64::INFINITY,

@@ -295,7 +295,183 @@ fn every_date_column_parses_strictly_and_matches_its_julian_date() {
 #[test]
 fn strict_date_parser_anchors() {
     assert!((strict_jd("2000-01-01T12:00:00") - 2451545.0).abs() < 1e-12);
-    for bad in ["2032-03-01", "2032-03-01T00:00:00.5", "2032-03-01T00:00:00Z", "2032-03-01 00:00:00"] {
-        assert!(std::panic::catch_unwind(|| strict_jd(bad)).is_err(), "{bad} accepted");
+    for bad in [
+        "2032-03-01",
+        "2032-03-01T00:00:00.5",
+        "2032-03-01T00:00:00Z",
+        "2032-03-01 00:00:00",
+    ] {
+        assert!(
+            std::panic::catch_unwind(|| strict_jd(bad)).is_err(),
+            "{bad} accepted"
+        );
     }
+}
+
+// ---------------------------------------------------------------------
+// Sanity flags.
+
+/// A Teodra -> Ashkel arc of 353.5 deg swings round the star inside its
+/// radius (checked by propagation in transfer::flags); `transfer` prints it
+/// with the flag and warns on stderr.
+#[test]
+fn transfer_flags_and_warns_on_periapsis_inside() {
+    let d = Dir::new("flag-peri");
+    let r = d
+        .run(&[
+            "transfer",
+            "Teodra",
+            "Ashkel",
+            "--depart",
+            "2031-01-01",
+            "--arrive",
+            "2031-06-05",
+        ])
+        .ok();
+    assert!(r.stdout.contains("periapsis-inside"), "{}", r.stdout);
+    assert!(
+        r.stderr.contains("synodic: warning:") && r.stderr.contains("inside its radius"),
+        "{}",
+        r.stderr
+    );
+    let r = d
+        .run(&[
+            "transfer",
+            "Teodra",
+            "Ashkel",
+            "--depart",
+            "2031-01-01",
+            "--arrive",
+            "2031-06-05",
+            "--json",
+        ])
+        .ok();
+    let v: serde_json::Value = serde_json::from_str(&r.stdout).expect("JSON");
+    assert_eq!(v["arcs"][0]["flags"], "periapsis-inside");
+}
+
+/// A one-second transfer between planets is not a number to quote: the
+/// arc is flagged `relativistic` and a warning states the threshold.
+#[test]
+fn one_second_transfer_is_flagged_relativistic() {
+    let d = Dir::new("flag-fast");
+    let r = d
+        .run(&[
+            "transfer",
+            "Teodra",
+            "Kesh",
+            "--depart",
+            "2032-07-22T00:00:00",
+            "--arrive",
+            "2032-07-22T00:00:01",
+        ])
+        .ok();
+    assert!(r.stdout.contains("relativistic"), "{}", r.stdout);
+    assert!(
+        r.stderr.contains("1 % of the speed of light (2998 km/s)"),
+        "{}",
+        r.stderr
+    );
+}
+
+/// Flagged cells stay in the grid (with their flag) but are never optima
+/// unless asked: a grid of 1 to 9 second transfers is all `relativistic`,
+/// so it has no minima and no refined optima, until --allow-flagged.
+#[test]
+fn flagged_cells_are_kept_but_not_optima_unless_allowed() {
+    let d = Dir::new("flag-grid");
+    let common = [
+        "sweep",
+        "Teodra",
+        "Kesh",
+        "--depart",
+        "2032-07-01..2032-07-05",
+        "--tof-days",
+        "0.00001157..0.0001042",
+        "--step-days",
+        "1,0.00001157",
+        "--quiet",
+        "--skip",
+        "chart",
+    ];
+    let mut strict = common.to_vec();
+    strict.extend(["--out", "strict"]);
+    d.run(&strict).ok();
+    let grid = std::fs::read_to_string(d.join("strict/grid.csv")).expect("grid");
+    let rows: Vec<&str> = grid.lines().skip(1).collect();
+    assert!(
+        rows.len() >= 40
+            && rows
+                .iter()
+                .all(|l| l.ends_with(",ok,hyperbolic;relativistic")),
+        "{}",
+        rows[0]
+    );
+    let s = summary(&d, "strict");
+    assert_eq!(
+        s["minima"].as_array().map(Vec::len),
+        Some(0),
+        "{}",
+        s["minima"]
+    );
+    let windows = std::fs::read_to_string(d.join("strict/windows.csv")).expect("windows");
+    assert_eq!(windows.lines().count(), 1, "{windows}");
+
+    let mut allowed = common.to_vec();
+    allowed.extend(["--out", "allowed", "--allow-flagged"]);
+    d.run(&allowed).ok();
+    let s = summary(&d, "allowed");
+    let minima = s["minima"].as_array().expect("minima");
+    assert!(!minima.is_empty());
+    assert!(minima.iter().all(|m| m["flags"]
+        .as_str()
+        .is_some_and(|f| f.contains("relativistic"))));
+    let windows = std::fs::read_to_string(d.join("allowed/windows.csv")).expect("windows");
+    assert!(
+        windows
+            .lines()
+            .nth(1)
+            .is_some_and(|l| l.contains("relativistic")),
+        "{windows}"
+    );
+    // The choice is recorded in the resolved study, so a repeat agrees.
+    let study = std::fs::read_to_string(d.join("allowed/study.toml")).expect("study");
+    assert!(study.contains("allow_flagged = true"), "{study}");
+}
+
+/// Grid minima on a limit of the grid carry the `edge` flag: a departure
+/// span that ends before the C3 minimum puts it on the last row.
+#[test]
+fn grid_minima_on_a_limit_are_flagged_edge() {
+    let d = Dir::new("edge-minima");
+    d.run(&[
+        "sweep",
+        "Teodra",
+        "Kesh",
+        "--depart",
+        "2032-04-01..2032-05-15",
+        "--tof-days",
+        "150..450",
+        "--step-days",
+        "5",
+        "--quiet",
+        "--skip",
+        "chart,grid",
+        "--out",
+        "o",
+    ])
+    .ok();
+    let s = summary(&d, "o");
+    let c3 = s["minima"]
+        .as_array()
+        .expect("minima")
+        .iter()
+        .find(|m| m["objective"] == "c3" && m["type"] == "I")
+        .expect("a Type I C3 minimum");
+    // The last departure of the axis: 2032-04-01 + 8 x 5 days.
+    assert_eq!(c3["depart_date"], "2032-05-11T00:00:00", "{c3}");
+    assert!(
+        c3["flags"].as_str().is_some_and(|f| f.contains("edge")),
+        "{c3}"
+    );
 }

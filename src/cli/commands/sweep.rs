@@ -18,14 +18,15 @@ use synodic::study::{
     relative_path, ChartSection, Limits, Orbits, Outputs, Pair, Study, SweepSection,
 };
 use synodic::sweep::{
-    grid_minima, sweep, Axis, CellStatus, Grid, Layer, Objective, RunOptions, SecondAxis, SweepSpec,
+    grid_minima_with, sweep, Axis, CellStatus, Grid, Layer, Objective, RunOptions, SecondAxis,
+    SweepSpec,
 };
 use synodic::transfer::Leg;
 use synodic::windows::{optima_of_grid, Borders, Bounds, Optimum};
 
 use super::study::{execute, folder_of, save_study, Origin, PartResult, Provenance, RunFlags};
 use crate::cli::args::SweepArgs;
-use crate::cli::input::{day_of, parse_number_span};
+use crate::cli::input::{day_of, parse_number_span, tof_unit};
 use crate::cli::{CliResult, Outcome};
 
 /// The demo study's default pair: two bodies of the built-in system whose
@@ -65,6 +66,9 @@ struct MinimumOut {
     c3_km2_s2: f64,
     vinf_arrive_km_s: f64,
     dv_total_km_s: f64,
+    /// `edge` (on a limit of the grid) and the cell's sanity flags,
+    /// `;`-separated.
+    flags: String,
 }
 
 #[derive(Debug, Serialize)]
@@ -211,6 +215,7 @@ fn study_from_args(args: &SweepArgs) -> CliResult<Study> {
             show: args.show.clone(),
         },
         outputs,
+        allow_flagged: args.allow_flagged,
     })
 }
 
@@ -264,13 +269,14 @@ pub fn run_grid(
         from: spec.from,
         to: spec.to,
         ends: spec.ends,
+        allow_flagged: study.allow_flagged,
     };
     let optima = if study.outputs.windows || study.outputs.chart {
         refined_optima(&leg, spec, &grid)
     } else {
         Vec::new()
     };
-    let summary = summarise(system, spec, provenance, &grid);
+    let summary = summarise(system, spec, provenance, &grid, study.allow_flagged);
     let mut written = Vec::new();
     if study.outputs.grid {
         let path = out_dir.join("grid.csv");
@@ -313,10 +319,20 @@ fn refined_screen(optima: &[Optimum]) -> String {
     }
     let mut o =
         String::from("Refined optima (minimum C3 on the Lambert solution itself, windows.csv)\n");
+    let (unit, per_day) = tof_unit(optima.iter().map(|o| o.arrive_days - o.depart_days));
     let _ = writeln!(
         o,
         "  {:<4} {:>4} {:<6} {:<16}  {:<16}  {:>8}  {:>9}  {:>7}  {:>7}  {:>9}  flags",
-        "type", "revs", "branch", "depart", "arrive", "tof (d)", "C3", "DLA", "RLA", "vinf in"
+        "type",
+        "revs",
+        "branch",
+        "depart",
+        "arrive",
+        format!("tof ({unit})"),
+        "C3",
+        "DLA",
+        "RLA",
+        "vinf in"
     );
     for opt in optima {
         let f = &opt.figures;
@@ -324,6 +340,7 @@ fn refined_screen(optima: &[Optimum]) -> String {
         let flags: Vec<&str> = [(opt.ridge, "ridge"), (opt.edge, "edge")]
             .into_iter()
             .filter_map(|(on, name)| on.then_some(name))
+            .chain(f.flags.names())
             .collect();
         let _ = writeln!(
             o,
@@ -333,7 +350,7 @@ fn refined_screen(optima: &[Optimum]) -> String {
             opt.layer.branch.to_string(),
             when(opt.depart_days),
             when(opt.arrive_days),
-            opt.arrive_days - opt.depart_days,
+            (opt.arrive_days - opt.depart_days) * per_day,
             f.c3_km2_s2,
             f.dla_deg,
             f.rla_deg,
@@ -511,13 +528,19 @@ fn axis_out(axis: &Axis, kind: SecondAxis, is_depart: bool) -> AxisOut {
     }
 }
 
-fn summarise(system: &System, spec: &SweepSpec, provenance: &Provenance, grid: &Grid) -> Summary {
+fn summarise(
+    system: &System,
+    spec: &SweepSpec,
+    provenance: &Provenance,
+    grid: &Grid,
+    allow_flagged: bool,
+) -> Summary {
     let ends = &spec.ends;
     let counts = grid.status_counts();
     let count = |s: CellStatus| counts.iter().find(|c| c.0 == s).map_or(0, |c| c.1);
     let mut minima = Vec::new();
     for objective in [Objective::C3, Objective::VinfArrive, Objective::DvTotal] {
-        for m in grid_minima(grid, ends, objective) {
+        for m in grid_minima_with(grid, ends, objective, allow_flagged) {
             let idx = grid.index(m.i, m.j, m.layer);
             let (d, a) = grid.dates_days(m.i, m.j);
             let vd = grid.vinf_depart_km_s[idx];
@@ -537,6 +560,13 @@ fn summarise(system: &System, spec: &SweepSpec, provenance: &Provenance, grid: &
                 c3_km2_s2: vd * vd,
                 vinf_arrive_km_s: va,
                 dv_total_km_s: ends.dv_total_km_s(vd, va),
+                flags: m
+                    .edge
+                    .then_some("edge")
+                    .into_iter()
+                    .chain(m.flags.names())
+                    .collect::<Vec<_>>()
+                    .join(";"),
             });
         }
     }
@@ -597,10 +627,11 @@ fn screen(s: &Summary, elapsed_s: f64) -> String {
         g.no_solution,
         g.not_converged
     );
+    let (unit, per_day) = tof_unit(s.minima.iter().map(|m| m.tof_days));
     let _ = writeln!(o, "\nGrid minima (refine with a finer step)");
     let _ = writeln!(
         o,
-        "  {:<12} {:<4} {:>4} {:<6} {:>10}  {:<16}  {:<16}  {:>8}  {:>9}  {:>9}  {:>9}",
+        "  {:<12} {:<4} {:>4} {:<6} {:>10}  {:<16}  {:<16}  {:>8}  {:>9}  {:>9}  {:>9}  flags",
         "objective",
         "type",
         "revs",
@@ -608,7 +639,7 @@ fn screen(s: &Summary, elapsed_s: f64) -> String {
         "value",
         "depart",
         "arrive",
-        "tof (d)",
+        format!("tof ({unit})"),
         "C3",
         "vinf in",
         "dv total"
@@ -616,7 +647,7 @@ fn screen(s: &Summary, elapsed_s: f64) -> String {
     for m in &s.minima {
         let _ = writeln!(
             o,
-            "  {:<12} {:<4} {:>4} {:<6} {:>10.4}  {:<16}  {:<16}  {:>8.1}  {:>9.4}  {:>9.4}  {:>9.4}",
+            "  {:<12} {:<4} {:>4} {:<6} {:>10.4}  {:<16}  {:<16}  {:>8.1}  {:>9.4}  {:>9.4}  {:>9.4}  {}",
             m.objective,
             m.kind,
             m.revs,
@@ -624,10 +655,11 @@ fn screen(s: &Summary, elapsed_s: f64) -> String {
             m.value,
             minute(&m.depart_date),
             minute(&m.arrive_date),
-            m.tof_days,
+            m.tof_days * per_day,
             m.c3_km2_s2,
             m.vinf_arrive_km_s,
-            m.dv_total_km_s
+            m.dv_total_km_s,
+            m.flags
         );
     }
     let _ = writeln!(o, "  (C3 km^2/s^2; speeds and delta-v km/s; dates TDB)\n");

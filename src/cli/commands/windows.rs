@@ -20,7 +20,9 @@ use synodic::windows::{scan, Bounds, OpportunityWindow, ScanOptions};
 use super::print;
 use super::study::{endpoints, folder_of, save_study, Origin, PartResult, Provenance, RunFlags};
 use crate::cli::args::WindowsArgs;
-use crate::cli::input::{body_pair, compact_date, day_of, load_system, parse_number_span};
+use crate::cli::input::{
+    body_pair, compact_date, day_of, load_system, parse_number_span, tof_unit,
+};
 use crate::cli::{CliResult, Outcome};
 
 /// Caution printed under every table.
@@ -199,6 +201,7 @@ fn scan_rows(
         from,
         to,
         ends: endpoints(study, system, from, to)?,
+        allow_flagged: study.allow_flagged,
     };
     let mut options = plan.options;
     options.threads = threads;
@@ -366,6 +369,7 @@ pub fn run(args: &WindowsArgs) -> CliResult<Outcome> {
         },
         chart: Default::default(),
         outputs: Outputs::default(),
+        allow_flagged: args.allow_flagged,
     };
     let system = load_system(args.system.as_deref())?;
     let (from, to) = body_pair(&system, &args.from, &args.to)?;
@@ -469,11 +473,12 @@ pub fn table(
     max_c3: Option<f64>,
 ) -> String {
     let mut s = String::new();
+    let (unit, per_day) = tof_unit(rows.iter().map(|r| r.0.tof_days));
     let _ = writeln!(s, "{title}\n");
     let _ = writeln!(
         s,
         "{:<11} {:<4} {:<8} {:<16} {:<16} {:>7} {:>8} {:>7} {:>7} {:>7} {:>7} {:>7} {:>7}  {:<28} flags",
-        "opportunity", "type", "revs", "depart", "arrive", "tof d", "C3", "DLA", "RLA", "vinf o", "vinf i", "dec i", "dv tot",
+        "opportunity", "type", "revs", "depart", "arrive", format!("tof {unit}"), "C3", "DLA", "RLA", "vinf o", "vinf i", "dec i", "dv tot",
         if max_c3.is_some() { "launch period (days)" } else { "" },
     );
     for (r, fixed) in rows {
@@ -508,7 +513,7 @@ pub fn table(
             revs,
             short(&r.depart_date),
             short(&r.arrive_date),
-            r.tof_days,
+            r.tof_days * per_day,
             r.c3_km2_s2,
             r.dla_deg,
             r.rla_deg,
@@ -542,7 +547,8 @@ pub fn table(
         s,
         "\nC3 km^2/s^2; v-infinity (out, in) and delta-v km/s; angles deg; dates TDB.\n\
          Type I: transfer angle < 180 deg; II: > 180 deg. Flags: ridge = next to the \
-         180-deg ridge (ill-conditioned), edge = on a search limit, over-limit = above a ceiling."
+         180-deg ridge (ill-conditioned), edge = on a search limit, over-limit = above a ceiling;\n\
+         hyperbolic = the transfer orbit escapes the central body (information only)."
     );
     let _ = writeln!(s, "\n{CAUTION}");
     s
