@@ -95,7 +95,7 @@ pub struct ChartArgs {
     #[arg(long, value_name = "LIST", value_delimiter = ',')]
     pub vinf_levels: Option<Vec<f64>>,
     /// Shade the region with C3 at or below this ceiling (km^2/s^2).
-    #[arg(long, value_name = "C3")]
+    #[arg(long, value_name = "C3", allow_hyphen_values = true)]
     pub max_c3: Option<f64>,
     /// Draw this panel instead of the main chart: dla, arrive-dec or
     /// dv-total (total delta-v without parking or capture orbits).
@@ -144,7 +144,7 @@ pub struct WindowsArgs {
     pub tof_days: Option<String>,
     /// Launch-vehicle C3 ceiling (km^2/s^2): launch periods are reported
     /// against it.
-    #[arg(long, value_name = "C3")]
+    #[arg(long, value_name = "C3", allow_hyphen_values = true)]
     pub max_c3: Option<f64>,
     /// Arrival v-infinity ceiling (km/s).
     #[arg(long, value_name = "KM_S")]
@@ -239,7 +239,7 @@ pub struct SweepArgs {
     #[arg(long, value_name = "LIST", value_delimiter = ',')]
     pub vinf_levels: Option<Vec<f64>>,
     /// Shade the region with C3 at or below this ceiling (km^2/s^2).
-    #[arg(long, value_name = "C3")]
+    #[arg(long, value_name = "C3", allow_hyphen_values = true)]
     pub max_c3: Option<f64>,
     /// Extra chart panels, each written as chart-NAME.svg/.png:
     /// dla, arrive-dec, dv-total.
@@ -326,18 +326,19 @@ pub struct TransferArgs {
 pub struct OrbitArgs {
     /// Altitude of the circular parking orbit at departure (km); 200 km
     /// when omitted and the body has a GM and radius.
-    #[arg(long, value_name = "KM")]
+    #[arg(long, value_name = "KM", allow_hyphen_values = true)]
     pub park_alt_km: Option<f64>,
     /// Periapsis altitude of the capture orbit at arrival (km); no capture
     /// burn when omitted.
-    #[arg(long, value_name = "KM")]
+    #[arg(long, value_name = "KM", allow_hyphen_values = true)]
     pub capture_alt_km: Option<f64>,
     /// Eccentricity of the capture orbit.
     #[arg(
         long,
         value_name = "E",
         default_value_t = 0.0,
-        requires = "capture_alt_km"
+        requires = "capture_alt_km",
+        allow_hyphen_values = true
     )]
     pub capture_ecc: f64,
 }

@@ -11,9 +11,11 @@ use synodic::orbit::{conic_from_state, State};
 use synodic::transfer::{arcs_between, periapsis_km, ArcFlags, Figures, RELATIVISTIC_SPEED_KM_S};
 
 use super::print;
+use super::study::{check_orbits, Origin};
 use crate::cli::args::TransferArgs;
 use crate::cli::input::{body_pair, load_system, parse_epoch, resolve_endpoints};
 use crate::cli::{CliResult, Outcome};
+use synodic::study::Orbits;
 
 #[derive(Debug, Serialize)]
 struct ArcOut {
@@ -64,13 +66,29 @@ pub fn run(args: &TransferArgs) -> CliResult<Outcome> {
     let (from, to) = body_pair(&system, &args.from, &args.to)?;
     let depart = parse_epoch(&args.depart, "--depart")?;
     let arrive = parse_epoch(&args.arrive, "--arrive")?;
+    check_orbits(
+        &Orbits {
+            park_alt_km: args.orbits.park_alt_km,
+            capture_alt_km: args.orbits.capture_alt_km,
+            capture_ecc: args.orbits.capture_alt_km.map(|_| args.orbits.capture_ecc),
+        },
+        &Origin::Cli,
+    )?;
     let ends = resolve_endpoints(
         &system.bodies[from],
         &system.bodies[to],
         args.orbits.park_alt_km,
         args.orbits.capture_alt_km,
         args.orbits.capture_ecc,
-    )?;
+    )
+    .map_err(|e| {
+        let flag = if e.to_string().contains("capture") {
+            "--capture-alt-km"
+        } else {
+            "--park-alt-km"
+        };
+        format!("{flag}: {e} (in {})", system.source)
+    })?;
     let arcs = arcs_between(&system, from, to, &depart, &arrive, &ends, args.revs)?;
     let r1 = system.state(from, &depart).r_km;
     let mu = system.central.mu_km3_s2;

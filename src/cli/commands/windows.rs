@@ -172,7 +172,7 @@ pub fn scan_plan(
         .into());
     }
     // Validate the orbits now, before any work.
-    endpoints(study, system, from, to)?;
+    endpoints(study, system, from, to, origin)?;
     Ok(ScanPlan {
         span: (s0.days_since_j2000_tdb(), s1.days_since_j2000_tdb()),
         options: ScanOptions {
@@ -200,7 +200,7 @@ fn scan_rows(
         system,
         from,
         to,
-        ends: endpoints(study, system, from, to)?,
+        ends: endpoints(study, system, from, to, &Origin::Cli)?,
         allow_flagged: study.allow_flagged,
     };
     let mut options = plan.options;
