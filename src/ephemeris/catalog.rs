@@ -838,21 +838,13 @@ fn read_body(
         (Some(lon), Some(lat)) => {
             Some(loc.pole(lon, lat, ctx, ("pole_lon_deg", "pole_lat_deg"))?)
         }
-        (Some(lon), None) => {
-            return Err(loc.invalid(
-                lon.span(),
-                ctx,
-                "pole_lat_deg",
-                "missing: pole_lon_deg and pole_lat_deg go together".to_string(),
-            ))
-        }
-        (None, Some(lat)) => {
-            return Err(loc.invalid(
-                lat.span(),
-                ctx,
-                "pole_lon_deg",
-                "missing: pole_lon_deg and pole_lat_deg go together".to_string(),
-            ))
+        (Some(half), None) | (None, Some(half)) => {
+            let missing = match b.pole_lon_deg {
+                Some(_) => "pole_lat_deg",
+                None => "pole_lon_deg",
+            };
+            let why = "missing: pole_lon_deg and pole_lat_deg go together".to_string();
+            return Err(loc.invalid(half.span(), ctx, missing, why));
         }
         (None, None) => None,
     };

@@ -4,6 +4,7 @@
 //! covers one command. `util` builds the temp folders and commands.
 
 mod bad_input;
+mod bad_trust;
 mod commands;
 mod examples;
 mod fuzz;
