@@ -475,3 +475,112 @@ fn grid_minima_on_a_limit_are_flagged_edge() {
         "{c3}"
     );
 }
+
+// ---------------------------------------------------------------------
+// Cross-checks a user can make: bodies --at, synodic periods.
+
+const STANDISH: &str = include_str!("../fixtures/standish-table1.toml");
+
+/// `bodies --at` prints states a user can compare with any ephemeris.
+/// Source: NASA Mars Exploration Program, Earth-Mars centre distance at the
+/// 2003 close approach, 2003-08-27 09:51 UT: 55,758,006 km; the Standish
+/// Table 1 model agrees within 0.2 % (barycentre offset and the table's
+/// stated errors). The celestial (EME2000) components are the system
+/// (ecliptic) ones rotated about x by the obliquity, 84381.406 arcsec
+/// (IAU 2006). Tolerance 1e-9 relative: printed JSON round trip.
+#[test]
+fn bodies_at_prints_states_in_both_frames() {
+    let d = Dir::new("bodies-at");
+    d.write("standish.toml", STANDISH);
+    let r = d
+        .run(&[
+            "bodies",
+            "--system",
+            "standish.toml",
+            "--at",
+            "2003-08-27T09:51:00 UTC",
+            "--json",
+        ])
+        .ok();
+    let v: serde_json::Value = serde_json::from_str(&r.stdout).expect("JSON");
+    let states = v["at"]["states"].as_array().expect("states");
+    let vec3 = |s: &serde_json::Value, key: &str| -> [f64; 3] {
+        let a = s[key].as_array().expect(key);
+        [0, 1, 2].map(|i| a[i].as_f64().expect("number"))
+    };
+    let find = |name: &str| states.iter().find(|s| s["name"] == name).expect(name);
+    let (earth, mars) = (find("Earth-Moon Barycenter"), find("Mars"));
+    let (e, m) = (vec3(earth, "r_km"), vec3(mars, "r_km"));
+    let dist = ((m[0] - e[0]).powi(2) + (m[1] - e[1]).powi(2) + (m[2] - e[2]).powi(2)).sqrt();
+    assert!((dist / 55_758_006.0 - 1.0).abs() < 2e-3, "{dist}");
+    let (s, c) = (84381.406f64 / 3600.0).to_radians().sin_cos();
+    for body in states {
+        for (sys_key, cel_key) in [("r_km", "celestial_r_km"), ("v_km_s", "celestial_v_km_s")] {
+            let (x, q) = (vec3(body, sys_key), vec3(body, cel_key));
+            let want = [x[0], c * x[1] - s * x[2], s * x[1] + c * x[2]];
+            let scale = (x[0] * x[0] + x[1] * x[1] + x[2] * x[2]).sqrt();
+            for i in 0..3 {
+                assert!(
+                    (q[i] - want[i]).abs() <= 1e-9 * scale,
+                    "{} {cel_key}",
+                    body["name"]
+                );
+            }
+        }
+    }
+    // Without a [frame] there is no celestial copy of the states.
+    let r = d.run(&["bodies", "--system", "standish.toml"]).ok();
+    assert!(
+        r.stdout.contains("lon peri") && r.stdout.contains("arg peri"),
+        "{}",
+        r.stdout
+    );
+}
+
+/// `bodies` shows the synodic period of a prograde and a retrograde body
+/// of equal period as half that period (relative angular rate 2n).
+#[test]
+fn bodies_shows_retrograde_synodic_periods() {
+    let d = Dir::new("bodies-retro");
+    d.write(
+        "retro.toml",
+        "name = \"r\"\nepoch = \"2030-01-01\"\n[central]\nname = \"S\"\nmu_km3_s2 = 1.3e11\n\
+         [[body]]\nname = \"Fore\"\na_au = 1.0\ne = 0.0\ni_deg = 0.0\nnode_deg = 0.0\n\
+         lon_peri_deg = 0.0\nmean_lon_deg = 0.0\n\
+         [[body]]\nname = \"Back\"\na_au = 1.0\ne = 0.0\ni_deg = 180.0\nnode_deg = 0.0\n\
+         lon_peri_deg = 0.0\nmean_lon_deg = 90.0\n",
+    );
+    let r = d.run(&["bodies", "--system", "retro.toml", "--json"]).ok();
+    let v: serde_json::Value = serde_json::from_str(&r.stdout).expect("JSON");
+    let fore = &v["bodies"][0];
+    let period = fore["period_days"].as_f64().expect("period");
+    let synodic = fore["synodic_days"][0]["days"].as_f64().expect("finite");
+    assert!(
+        (synodic / (period / 2.0) - 1.0).abs() < 1e-12,
+        "{synodic} vs {period}"
+    );
+    assert_eq!(v["bodies"][1]["retrograde"], true);
+}
+
+/// Ridge rows of a window table say their launch period was not computed,
+/// not "closed" (the iskra example has ridge rows under a C3 ceiling).
+#[test]
+fn ridge_rows_say_not_computed() {
+    let d = Dir::new("ridge-rows");
+    let root = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("examples/iskra-rendezvous");
+    std::fs::copy(root.join("study.toml"), d.join("study.toml")).expect("copy");
+    let r = d.run(&["run", "study.toml", "--out", "o"]).ok();
+    // Rows of the best-window table start with their opportunity's date.
+    let ridge: Vec<&str> = r
+        .stdout
+        .lines()
+        .filter(|l| l.starts_with("20") && (l.ends_with(" ridge") || l.contains(" ridge;")))
+        .collect();
+    assert!(!ridge.is_empty(), "{}", r.stdout);
+    for l in ridge {
+        assert!(
+            l.contains("not computed at the ridge") && !l.contains("closed"),
+            "{l}"
+        );
+    }
+}
