@@ -5,7 +5,7 @@ use std::fmt::Write as _;
 use std::path::Path;
 
 use serde::Serialize;
-use synodic::ephemeris::{Axes, System, AU_KM};
+use synodic::ephemeris::{Axes, System, AU_KM, JULIAN_CENTURY_DAYS};
 use synodic::export::stamp;
 use synodic::time::Epoch;
 
@@ -27,7 +27,11 @@ struct BodyRow {
     mean_anom_deg: f64,
     /// The keys the system file gave (the other two angles are derived).
     given: [&'static str; 2],
+    /// Kepler's third law, from `a` and the central GM.
     period_days: f64,
+    /// 360 deg over the mean-longitude rate the states use (equal to the
+    /// Kepler period unless the file gives its own rate).
+    mean_lon_period_days: f64,
     retrograde: bool,
     mu_km3_s2: Option<f64>,
     radius_km: Option<f64>,
@@ -98,6 +102,7 @@ pub fn run(system_path: Option<&Path>, at: Option<&str>, json: bool) -> CliResul
                 mean_anom_deg: b.elements.mean_anom_deg(),
                 given: [peri_key, epoch_key],
                 period_days: system.period_days(i),
+                mean_lon_period_days: 360.0 / b.rates.mean_lon_deg * JULIAN_CENTURY_DAYS,
                 retrograde: system.signed_period_days(i) < 0.0,
                 mu_km3_s2: b.mu_km3_s2,
                 radius_km: b.radius_km,
@@ -225,7 +230,7 @@ fn table(r: &Report) -> String {
             angle(b.mean_lon_deg, "mean_lon_deg"),
             angle(b.mean_anom_deg, "mean_anom_deg"),
             b.period_days,
-            if b.retrograde { "  retrograde" } else { "" }
+            notes(b)
         );
     }
     let _ = writeln!(
@@ -261,6 +266,23 @@ fn table(r: &Report) -> String {
         let _ = writeln!(s);
     }
     s
+}
+
+/// Remarks after a body's period: retrograde, and a given mean-motion
+/// rate that differs from Kepler's third law (rate_check = false).
+fn notes(b: &BodyRow) -> String {
+    let mut n = String::new();
+    if b.retrograde {
+        n.push_str("  retrograde");
+    }
+    if (b.mean_lon_period_days / b.period_days - 1.0).abs() > 1e-4 {
+        let _ = write!(
+            n,
+            "  (its mean-longitude rate gives {:.2} d)",
+            b.mean_lon_period_days
+        );
+    }
+    n
 }
 
 fn states_table(st: &States, system: &System) -> String {
