@@ -21,7 +21,7 @@
 //!   [`SAME_POLE_DEG`] of the celestial pole (the Earth), or the body has no
 //!   pole, the body's equator frame is the celestial frame itself.
 //! - In every frame `y = z x x`; right ascension is `atan2(v.y, v.x)`,
-//!   declination `asin(v.z / |v|)`.
+//!   declination `asin(v.z / |v|)` (`transfer::EquatorFrame::dec_ra_deg`).
 //!
 //! Vectors here are unit vectors in the system frame; this module knows
 //! nothing of system files.
@@ -95,24 +95,6 @@ impl Axes {
     #[inline]
     pub fn components(&self, v: &Vector3<f64>) -> Vector3<f64> {
         Vector3::new(v.dot(&self.x), v.dot(&self.y), v.dot(&self.z))
-    }
-
-    /// Declination and right ascension of direction `v` (system frame) in
-    /// this frame, degrees: declination in [-90, 90], right ascension in
-    /// [0, 360). A zero or non-finite vector gives (0, 0).
-    ///
-    /// # Method
-    /// `dec = asin(v.z / |v|)`, `ra = atan2(v.y, v.x)`.
-    pub fn dec_ra_deg(&self, v: &Vector3<f64>) -> (f64, f64) {
-        let c = self.components(v);
-        let n = c.norm();
-        if n <= 0.0 || !n.is_finite() {
-            return (0.0, 0.0);
-        }
-        let dec = (c.z / n).clamp(-1.0, 1.0).asin().to_degrees();
-        let ra = c.y.atan2(c.x).to_degrees().rem_euclid(360.0);
-        // rem_euclid of a tiny negative angle rounds to 360.0.
-        (dec, if ra >= 360.0 { 0.0 } else { ra })
     }
 
     fn from_pole_and_x(z: Vector3<f64>, x: Vector3<f64>) -> Axes {

@@ -78,24 +78,30 @@ fn control_demo_and_study_are_accepted() {
     assert!(d.files("out").contains(&"summary.json".to_string()));
 }
 
+/// The demo with `from` replaced by `to` in Kesh's table is refused with a
+/// message at the line holding `at`, naming `key` of body Kesh, and
+/// mentioning every needle.
+fn kesh_refused(name: &str, (from, to): (&str, &str), at: &str, key: &str, needles: &[&str]) {
+    let text = edit(DEMO, from, to);
+    let line = format!("sys.toml:{}: body \"Kesh\": {key}", line_of(&text, at));
+    let mut all = vec![line.as_str()];
+    all.extend(needles);
+    system_refused(name, &text, &all);
+}
+
 /// A mean-longitude rate per day where per century is meant: Kepler's
 /// third law refuses it, printing both rates and their ratio.
 #[test]
 fn unit_slip_rate() {
-    let text = edit(
-        DEMO,
-        "mean_lon_deg = 205.0\n",
-        "mean_lon_deg = 205.0\nrates = { mean_lon_deg = 1.914 }\n",
-    );
-    let line = format!(
-        "sys.toml:{}: body \"Kesh\": rates: key `mean_lon_deg`",
-        line_of(&text, "rates = { mean_lon_deg = 1.914")
-    );
-    system_refused(
+    kesh_refused(
         "bt-unit-slip",
-        &text,
+        (
+            "mean_lon_deg = 205.0\n",
+            "mean_lon_deg = 205.0\nrates = { mean_lon_deg = 1.914 }\n",
+        ),
+        "rates = { mean_lon_deg = 1.914",
+        "rates: key `mean_lon_deg`",
         &[
-            &line,
             "disagrees with Kepler's third law",
             "Kepler / given = ",
             "per Julian century",
@@ -106,16 +112,12 @@ fn unit_slip_rate() {
 
 #[test]
 fn retired_peri_deg() {
-    let text = edit(DEMO, "lon_peri_deg = 301.0", "peri_deg = 301.0");
-    let line = format!(
-        "sys.toml:{}: body \"Kesh\": key `peri_deg`",
-        line_of(&text, "peri_deg = 301.0")
-    );
-    system_refused(
+    kesh_refused(
         "bt-peri-deg",
-        &text,
+        ("lon_peri_deg = 301.0", "peri_deg = 301.0"),
+        "peri_deg = 301.0",
+        "key `peri_deg`",
         &[
-            &line,
             "lon_peri_deg (longitude of periapsis",
             "arg_peri_deg (argument of periapsis",
         ],
@@ -124,68 +126,55 @@ fn retired_peri_deg() {
 
 #[test]
 fn element_set_neither_or_both() {
-    let text = edit(DEMO, "lon_peri_deg = 301.0\n", "");
-    let line = format!(
-        "sys.toml:{}: body \"Kesh\": key `lon_peri_deg`",
-        line_of(&text, KESH)
-    );
-    system_refused(
+    kesh_refused(
         "bt-neither",
-        &text,
-        &[&line, "missing the periapsis: give lon_peri_deg"],
+        ("lon_peri_deg = 301.0\n", ""),
+        KESH,
+        "key `lon_peri_deg`",
+        &["missing the periapsis: give lon_peri_deg"],
     );
-    let text = edit(
-        DEMO,
-        "lon_peri_deg = 301.0\n",
-        "lon_peri_deg = 301.0\narg_peri_deg = 268.0\n",
+    kesh_refused(
+        "bt-both",
+        (
+            "lon_peri_deg = 301.0\n",
+            "lon_peri_deg = 301.0\narg_peri_deg = 268.0\n",
+        ),
+        "arg_peri_deg = 268.0",
+        "key `arg_peri_deg`",
+        &["give only one of the two"],
     );
-    let line = format!(
-        "sys.toml:{}: body \"Kesh\": key `arg_peri_deg`",
-        line_of(&text, "arg_peri_deg = 268.0")
-    );
-    system_refused("bt-both", &text, &[&line, "give only one of the two"]);
-    let text = edit(
-        DEMO,
-        "mean_lon_deg = 205.0\n",
-        "mean_lon_deg = 205.0\nmean_anom_deg = 264.0\n",
-    );
-    let line = format!(
-        "sys.toml:{}: body \"Kesh\": key `mean_anom_deg`",
-        line_of(&text, "mean_anom_deg = 264.0")
-    );
-    system_refused(
+    kesh_refused(
         "bt-both-epoch",
-        &text,
-        &[&line, "mean_lon_deg (mean longitude"],
+        (
+            "mean_lon_deg = 205.0\n",
+            "mean_lon_deg = 205.0\nmean_anom_deg = 264.0\n",
+        ),
+        "mean_anom_deg = 264.0",
+        "key `mean_anom_deg`",
+        &["mean_lon_deg (mean longitude"],
     );
-    let text = edit(
-        DEMO,
-        "mean_lon_deg = 205.0\n",
-        "mean_lon_deg = 205.0\nrates = { arg_peri_deg = 0.1 }\n",
-    );
-    let line = format!(
-        "sys.toml:{}: body \"Kesh\": rates: key `arg_peri_deg`",
-        line_of(&text, "rates = { arg_peri_deg")
-    );
-    system_refused(
+    kesh_refused(
         "bt-rate-key",
-        &text,
-        &[&line, "its rate is rates.lon_peri_deg"],
+        (
+            "mean_lon_deg = 205.0\n",
+            "mean_lon_deg = 205.0\nrates = { arg_peri_deg = 0.1 }\n",
+        ),
+        "rates = { arg_peri_deg",
+        "rates: key `arg_peri_deg`",
+        &["its rate is rates.lon_peri_deg"],
     );
 }
 
 #[test]
 fn inclination_out_of_range() {
     for (value, folded) in [("200", "i_deg = 160"), ("-10", "i_deg = 10")] {
-        let text = edit(DEMO, "i_deg = 1.6", &format!("i_deg = {value}"));
-        let line = format!(
-            "sys.toml:{}: body \"Kesh\": key `i_deg`",
-            line_of(&text, &format!("i_deg = {value}"))
-        );
-        system_refused(
+        let edited = format!("i_deg = {value}");
+        kesh_refused(
             &format!("bt-incl{value}"),
-            &text,
-            &[&line, "must be in [0, 180] deg", folded, "node_deg + 180"],
+            ("i_deg = 1.6", &edited),
+            &edited,
+            "key `i_deg`",
+            &["must be in [0, 180] deg", folded, "node_deg + 180"],
         );
     }
 }

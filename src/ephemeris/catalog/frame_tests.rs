@@ -65,7 +65,8 @@ fn earth_frame_is_eme2000() {
     let sys = standish();
     let earth = &sys.bodies[sys.find("Earth-Moon Barycenter").expect("EMB")];
     assert!(earth.pole.is_some());
-    for frame in [earth.equator, sys.celestial] {
+    for axes in [earth.equator, sys.celestial] {
+        let frame = EquatorFrame::from_axes(&axes);
         let (dec, ra) = frame.dec_ra_deg(&Vector3::x());
         assert_relative_eq!(ra, 0.0, epsilon = 1e-9);
         assert_relative_eq!(dec, 0.0, epsilon = 1e-9);
