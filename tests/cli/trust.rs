@@ -396,7 +396,9 @@ fn flagged_cells_are_kept_but_not_optima_unless_allowed() {
     ];
     let mut strict = common.to_vec();
     strict.extend(["--out", "strict"]);
-    d.run(&strict).ok();
+    // Exit 1: it ran, but no cell may be an optimum.
+    let r = d.run(&strict);
+    assert_eq!(r.code, 1, "{}", r.stderr);
     let grid = std::fs::read_to_string(d.join("strict/grid.csv")).expect("grid");
     let rows: Vec<&str> = grid.lines().skip(1).collect();
     assert!(
