@@ -91,7 +91,8 @@ pub struct Body {
 /// A direction in the system frame, as longitude and latitude.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct Pole {
-    /// Longitude in the system frame's reference plane, degrees.
+    /// Longitude in the system frame's reference plane, degrees in
+    /// [0, 360).
     pub lon_deg: f64,
     /// Latitude above the reference plane, degrees, in [-90, 90].
     pub lat_deg: f64,
