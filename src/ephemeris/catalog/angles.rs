@@ -308,6 +308,12 @@ pub(super) fn check_rate(
         return Ok(());
     }
     let ratio = kepler / given;
+    let sign = if given < 0.0 {
+        " A retrograde orbit's mean longitude (node + argument of periapsis + mean \
+         anomaly) still increases: its rate is positive."
+    } else {
+        ""
+    };
     Err(loc.invalid(
         v.span(),
         &format!("{ctx}rates: "),
@@ -317,7 +323,7 @@ pub(super) fn check_rate(
              sqrt((GM_central + GM_body) / a^3) for a = {a_km:.6e} km is {kepler:.6} deg per \
              Julian century (Kepler / given = {ratio:.6}). Rates are per Julian century of \
              36525 days: a ratio near 36525 means a rate per day, near 100 a rate per year. \
-             For an orbit perturbed on purpose, set rate_check = false in this body"
+             For an orbit perturbed on purpose, set rate_check = false in this body.{sign}"
         ),
     ))
 }

@@ -287,6 +287,9 @@ fn keplers_third_law_guards_mean_motion_rates() {
         100.0,
         max_relative = 1e-3
     );
+    // A negative rate (a retrograde reading of the dog-leg angle) is told
+    // the mean longitude still increases.
+    assert!(error_of(&file(-mars_per_century, "")).contains("its rate is positive"));
     // 2 % off is refused, 0.5 % passes (the 1 % tolerance).
     assert!(System::from_toml_str(&file(mars_per_century * 1.02, ""), "t.toml").is_err());
     assert!(System::from_toml_str(&file(mars_per_century * 1.005, ""), "t.toml").is_ok());
