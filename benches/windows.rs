@@ -27,6 +27,7 @@ fn main() {
         from: system.find("Teodra").expect("demo body"),
         to: system.find("Kesh").expect("demo body"),
         ends: Endpoints::bare(),
+        allow_flagged: false,
     };
     let s0 = Epoch::parse("2030-01-01")
         .expect("date")

@@ -51,6 +51,7 @@ fn main() -> Result<(), synodic::Error> {
         from,
         to,
         ends,
+        allow_flagged: false,
     };
     let bounds = Bounds {
         depart: (spec.depart.start_days, spec.depart.end_days()),

@@ -52,7 +52,7 @@
 //! | [`time`] | epochs in TDB, parsing and printing | hifitime |
 //! | [`opportunity`] | bracketing opportunities by Hohmann phasing | Kepler's third law |
 //! | [`orbit`] | two-body states, universal-variable propagation, elements from a state | Bate, Mueller & White (1971) ch. 4-5 |
-//! | [`ephemeris`] | mean-element bodies, system files, Kepler's equation | Standish, *Keplerian Elements for Approximate Positions of the Major Planets* |
+//! | [`ephemeris`] | mean-element bodies, system files, Kepler's equation, celestial and equator frames | Standish, *Keplerian Elements for Approximate Positions of the Major Planets*; IAU working group node convention |
 //! | [`lambert`] | Lambert's two-point boundary-value problem | Izzo (2015) |
 //! | [`export`] | atomic file writing | temp file, then rename |
 //! | [`study`] | study files: a whole run in one TOML file | serde + toml |

@@ -57,7 +57,8 @@ pub fn next_opportunity(
     let a1 = system.bodies[from].elements.a_km;
     let a2 = system.bodies[to].elements.a_km;
     let t_h = hohmann_tof_days(a1, a2, mu);
-    let p2 = system.period_days(to);
+    // Signed: a retrograde target's longitude falls.
+    let p2 = system.signed_period_days(to);
     let required = PI - TAU * t_h / p2;
     let error = |d: f64| -> f64 {
         let r1 = system.state_at_days(from, d).r_km;

@@ -46,6 +46,9 @@
 //! chart = true
 //! windows = true
 //! ```
+//!
+//! A top-level `allow_flagged = true` (before the first table) lets arcs
+//! flagged `periapsis-inside` or `relativistic` be optima.
 
 use std::path::{Path, PathBuf};
 
@@ -87,6 +90,15 @@ pub struct Study {
     /// Which files to write.
     #[serde(default)]
     pub outputs: Outputs,
+    /// Let arcs flagged `periapsis-inside` or `relativistic` be chosen as
+    /// optima and counted in launch periods (default false: they are kept
+    /// in the grid but passed over).
+    #[serde(default, skip_serializing_if = "is_false")]
+    pub allow_flagged: bool,
+}
+
+fn is_false(b: &bool) -> bool {
+    !*b
 }
 
 /// Chart options of a study.
@@ -132,7 +144,11 @@ pub struct SweepSection {
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub arrive: Option<String>,
     /// Times of flight `[MIN, MAX]`, days.
-    #[serde(default, skip_serializing_if = "Option::is_none")]
+    #[serde(
+        default,
+        deserialize_with = "min_max_days",
+        skip_serializing_if = "Option::is_none"
+    )]
     pub tof_days: Option<[f64; 2]>,
     /// Grid step, days: `[D]` or `[DEPART, SECOND]` (default 1).
     #[serde(default, skip_serializing_if = "Option::is_none")]
@@ -155,7 +171,11 @@ pub struct WindowsSection {
     #[serde(default = "default_objective")]
     pub objective: String,
     /// Time-of-flight limits `[MIN, MAX]`, days.
-    #[serde(default, skip_serializing_if = "Option::is_none")]
+    #[serde(
+        default,
+        deserialize_with = "min_max_days",
+        skip_serializing_if = "Option::is_none"
+    )]
     pub tof_days: Option<[f64; 2]>,
     /// Highest number of complete revolutions (default 0).
     #[serde(default)]
@@ -163,6 +183,21 @@ pub struct WindowsSection {
     /// Length of the fixed-arrival launch period, daily departures.
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub launch_period_days: Option<u32>,
+}
+
+/// `[MIN, MAX]`: exactly two numbers (a third would otherwise be
+/// dropped without a word).
+fn min_max_days<'de, D: serde::Deserializer<'de>>(d: D) -> Result<Option<[f64; 2]>, D::Error> {
+    match Option::<Vec<f64>>::deserialize(d)? {
+        None => Ok(None),
+        Some(v) => match v.as_slice() {
+            [lo, hi] => Ok(Some([*lo, *hi])),
+            _ => Err(serde::de::Error::custom(format!(
+                "expected two numbers [MIN, MAX] in days, e.g. [100.0, 400.0], got {} number(s)",
+                v.len()
+            ))),
+        },
+    }
 }
 
 fn default_objective() -> String {
@@ -286,7 +321,8 @@ impl Study {
     /// [`StudyError::Invalid`] for an empty pair list.
     pub fn from_toml_str(text: &str, source: &str) -> Result<Study, StudyError> {
         let study: Study = toml::from_str(text).map_err(|e| {
-            let message = e.message().trim().to_string();
+            let value = e.span().and_then(|s| text.get(s));
+            let message = crate::error::plain_toml_message(e.message(), value);
             let key = e.span().and_then(|s| key_at(text, s.start)).filter(|k| {
                 let last = k.rsplit('.').next().unwrap_or(k);
                 !message.contains(&format!("`{last}`"))
@@ -468,6 +504,22 @@ mod tests {
             msg.starts_with("s.toml:10: key `sweep.step_days`:"),
             "{msg}"
         );
+    }
+
+    /// A time-of-flight range takes exactly two numbers.
+    #[test]
+    fn time_of_flight_range_has_two_numbers() {
+        for bad in ["[100.0, 200.0, 300.0]", "[100.0]"] {
+            let text = STUDY.replace("step_days = [2.0]", &format!("tof_days = {bad}"));
+            let msg = Study::from_toml_str(&text, "s.toml")
+                .expect_err(bad)
+                .to_string();
+            assert!(
+                msg.starts_with("s.toml:10: key `sweep.tof_days`: "),
+                "{msg}"
+            );
+            assert!(msg.contains("two numbers [MIN, MAX]"), "{msg}");
+        }
     }
 
     #[test]

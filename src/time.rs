@@ -239,6 +239,28 @@ impl Epoch {
         }
     }
 
+    /// The fixed form of every date column synodic writes:
+    /// `YYYY-MM-DDThh:mm:ss`, TDB, rounded to the nearest second (no
+    /// fraction, no scale suffix). An epoch outside the printable range
+    /// prints as [`Epoch::to_iso_tdb`] does.
+    pub fn to_iso_seconds_tdb(&self) -> String {
+        if !self.days_tdb.is_finite() || self.days_tdb.abs() > MAX_CALENDAR_DAYS {
+            return self.uncalendared();
+        }
+        // Whole seconds, exact in f64 far beyond the printable range.
+        let seconds = (self.days_tdb * SECONDS_PER_DAY).round();
+        let whole = Epoch {
+            days_tdb: seconds / SECONDS_PER_DAY,
+        };
+        match whole.calendar_tdb() {
+            Some(c) => format!(
+                "{:04}-{:02}-{:02}T{:02}:{:02}:{:02}",
+                c.year, c.month, c.day, c.hour, c.minute, c.second
+            ),
+            None => self.uncalendared(),
+        }
+    }
+
     /// Calendar date on the TDB scale, `YYYY-MM-DD` (the day that contains
     /// the epoch rounded to the nearest millisecond).
     pub fn date_tdb(&self) -> String {
@@ -367,6 +389,20 @@ impl Fields {
             }
             _ => TimeScale::TDB,
         };
+        // ISO 8601's zone designators ("Z" for UTC, "+02:00") are not read:
+        // synodic takes the scale as a word, so say how to write it.
+        if let Some(last) = words.last() {
+            let time_part = last.split_once(['T', 't']).map_or(*last, |(_, t)| t);
+            let zoned = time_part.contains(':')
+                && (time_part.ends_with(['Z', 'z']) || time_part.contains(['+', '-']));
+            if zoned {
+                return Err(syntax(
+                    "a time-zone designator (\"Z\" or an offset such as \"+02:00\") is not \
+                     read; for UTC write the scale as a word, e.g. \"2041-03-01T00:00:00 UTC\", \
+                     or leave it off for TDB",
+                ));
+            }
+        }
         let (date, time) = match words.as_slice() {
             [one] => match one.split_once(['T', 't']) {
                 Some((d, t)) => (d, Some(t)),
@@ -609,6 +645,19 @@ mod tests {
             .starts_with("JD "));
     }
 
+    /// The date-column form has whole seconds and no suffix; it rounds to
+    /// the nearest second and carries into the next day.
+    #[test]
+    fn seconds_form_rounds_to_the_second() {
+        let t = Epoch::parse("2033-04-29T23:59:59.6").expect("valid");
+        assert_eq!(t.to_iso_seconds_tdb(), "2033-04-30T00:00:00");
+        let t = Epoch::parse("2033-04-29T06:30:00.4").expect("valid");
+        assert_eq!(t.to_iso_seconds_tdb(), "2033-04-29T06:30:00");
+        assert!(Epoch::from_days_since_j2000_tdb(f64::NAN)
+            .to_iso_seconds_tdb()
+            .starts_with("invalid epoch"));
+    }
+
     #[test]
     fn unknown_scale_is_rejected_with_its_name() {
         let err = Epoch::parse("2033-04-29T06:30:00 GMT").expect_err("GMT unknown");
@@ -644,6 +693,23 @@ mod tests {
             .starts_with("\"2033-02-30\" is not a valid calendar date"));
         let err = Epoch::parse("2033-04-29T24:00:00").expect_err("hour 24");
         assert!(matches!(err, TimeError::InvalidDate { .. }), "{err}");
+    }
+
+    /// ISO 8601 zone designators get a message saying how to write the
+    /// scale, not a complaint about the digits of the second.
+    #[test]
+    fn zone_designators_are_explained() {
+        for text in [
+            "2041-03-01T00:00:00Z",
+            "2041-03-01T00:00:00z",
+            "2041-03-01T00:00:00+02:00",
+            "2041-03-01T00:00-05:00",
+        ] {
+            let msg = Epoch::parse(text).expect_err(text).to_string();
+            assert!(msg.contains("time-zone designator"), "{msg}");
+            assert!(msg.contains("2041-03-01T00:00:00 UTC"), "{msg}");
+            assert!(!msg.contains("two digits"), "{msg}");
+        }
     }
 
     #[test]

@@ -22,10 +22,14 @@
 
 use nalgebra::Vector3;
 
-use crate::ephemeris::{Body, Pole, System};
+use crate::ephemeris::{Axes, Body, CentralBody, Pole, System};
 use crate::lambert::{self, Branch, Direction, LambertError, LambertProblem, LambertSolution};
 use crate::orbit::State;
 use crate::time::Epoch;
+
+mod flags;
+
+pub use flags::{periapsis_km, ArcFlags, RELATIVISTIC_SPEED_KM_S, SPEED_OF_LIGHT_KM_S};
 
 /// Mission-design classification of a transfer by its transfer angle.
 ///
@@ -68,13 +72,16 @@ impl std::fmt::Display for TransferType {
 
 /// A body's equator frame, in which asymptote angles are measured.
 ///
-/// `z` is the body's north pole, `x` points to the ascending node of the
-/// body's equator on the system reference plane (`z_system x pole`), and
-/// `y = z x x`. A body without a pole, or whose pole is within 1e-12 rad of
-/// the system pole, uses the system frame itself.
+/// `z` is the body's north pole, `x` the ascending node of the body's
+/// equator on the celestial equator (celestial pole x body pole, the IAU
+/// working group's convention), and `y = z x x`; a body without a pole, or
+/// whose pole is the celestial pole, uses the celestial frame itself
+/// ([`crate::ephemeris::frame`] has the formulas). With the ecliptic as
+/// reference plane and the Earth's pole as celestial pole, the Earth's
+/// frame is EME2000 and RLA is measured from the vernal equinox.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct EquatorFrame {
-    /// Unit vector to the ascending node of the equator (system frame).
+    /// Unit vector to the origin of right ascension (system frame).
     pub x: Vector3<f64>,
     /// Completes the right-handed triad.
     pub y: Vector3<f64>,
@@ -85,43 +92,36 @@ pub struct EquatorFrame {
 impl EquatorFrame {
     /// The system reference frame itself.
     pub fn system() -> EquatorFrame {
+        EquatorFrame::from_axes(&Axes::system())
+    }
+
+    /// The frame of a triad of [`crate::ephemeris::frame`].
+    pub fn from_axes(a: &Axes) -> EquatorFrame {
         EquatorFrame {
-            x: Vector3::x(),
-            y: Vector3::y(),
-            z: Vector3::z(),
+            x: a.x,
+            y: a.y,
+            z: a.z,
         }
     }
 
-    /// The equator frame of a body whose north pole is `pole` (any length).
+    /// The equator frame of a body whose north pole is `pole` (any
+    /// length), with the system reference plane as the celestial equator
+    /// (a system without `[frame]`).
     pub fn from_pole_vector(pole: &Vector3<f64>) -> EquatorFrame {
-        let z = pole.normalize();
-        let node = Vector3::z().cross(&z);
-        let norm = node.norm();
-        if norm < 1e-12 || !norm.is_finite() {
-            return EquatorFrame::system();
-        }
-        let x = node / norm;
-        let y = z.cross(&x);
-        EquatorFrame { x, y, z }
+        EquatorFrame::from_axes(&Axes::equator(&Axes::system(), Some(pole)))
     }
 
-    /// The equator frame of `body`, or the system frame if it has no pole.
+    /// The equator frame of `body` as its system defines it
+    /// ([`Body::equator`]): the celestial frame if it has no pole.
     pub fn of_body(body: &Body) -> EquatorFrame {
-        match &body.pole {
-            Some(pole) => EquatorFrame::from_pole(pole),
-            None => EquatorFrame::system(),
-        }
+        EquatorFrame::from_axes(&body.equator)
     }
 
     /// The equator frame for a pole given by its longitude and latitude in
-    /// the system frame.
+    /// the system frame, with the system reference plane as the celestial
+    /// equator (a system without `[frame]`).
     pub fn from_pole(pole: &Pole) -> EquatorFrame {
-        let (lon, lat) = (pole.lon_deg.to_radians(), pole.lat_deg.to_radians());
-        EquatorFrame::from_pole_vector(&Vector3::new(
-            lat.cos() * lon.cos(),
-            lat.cos() * lon.sin(),
-            lat.sin(),
-        ))
+        EquatorFrame::from_pole_vector(&pole.unit_vector())
     }
 
     /// The length of `v` and its unit vector's components in this frame
@@ -400,9 +400,9 @@ pub struct Figures {
     /// Declination of the outgoing asymptote in the departure body's
     /// equator frame, deg.
     pub dla_deg: f64,
-    /// Right ascension of the outgoing asymptote, measured from the
-    /// ascending node of the departure body's equator on the system
-    /// reference plane, deg in [0, 360).
+    /// Right ascension of the outgoing asymptote in the departure body's
+    /// equator frame ([`EquatorFrame`]: for the Earth with a celestial
+    /// `[frame]`, from the vernal equinox), deg in [0, 360).
     pub rla_deg: f64,
     /// Arrival hyperbolic excess speed, km/s.
     pub vinf_arrive_km_s: f64,
@@ -419,21 +419,35 @@ pub struct Figures {
     pub dv_arrive_km_s: f64,
     /// Total delta-v, km/s.
     pub dv_total_km_s: f64,
+    /// Sanity flags of the arc ([`ArcFlags`]).
+    pub flags: ArcFlags,
 }
 
 impl Figures {
-    /// The figures of one Lambert arc from `depart` to `arrive`.
+    /// The figures of one Lambert arc from `depart` to `arrive` around
+    /// `central`.
     ///
     /// `depart` and `arrive` are the bodies' states at the departure and
     /// arrival epochs; `solution` is an arc between their positions taking
     /// `tof_days`.
     pub fn from_arc(
         ends: &Endpoints,
+        central: &CentralBody,
         depart: &State,
         arrive: &State,
         tof_days: f64,
         solution: &LambertSolution,
     ) -> Figures {
+        let flags = ArcFlags::of_arc(
+            &depart.r_km,
+            depart.r_km.norm(),
+            &solution.v1,
+            &solution.v2,
+            solution.transfer_angle_rad,
+            solution.revs,
+            central.mu_km3_s2,
+            central.radius_km,
+        );
         let vinf_depart = solution.v1 - depart.v_km_s;
         let vinf_arrive = solution.v2 - arrive.v_km_s;
         let a = Asymptotes::of_arc(ends, depart, arrive, solution);
@@ -461,6 +475,7 @@ impl Figures {
             dv_depart_km_s: dv_d,
             dv_arrive_km_s: dv_a,
             dv_total_km_s: dv_d + dv_a,
+            flags,
         }
     }
 }
@@ -520,9 +535,19 @@ pub struct Leg<'a> {
     pub to: usize,
     /// Parking and capture orbits, asymptote frames.
     pub ends: Endpoints,
+    /// Let arcs flagged `periapsis-inside` or `relativistic` be optima and
+    /// open launch periods (normally they are kept out: [`Leg::admits`]).
+    pub allow_flagged: bool,
 }
 
 impl Leg<'_> {
+    /// Whether `figures` may be an optimum or open a launch period: not
+    /// when its flags exclude it ([`ArcFlags::excludes`]), unless
+    /// [`Leg::allow_flagged`].
+    pub fn admits(&self, figures: &Figures) -> bool {
+        self.allow_flagged || !figures.flags.excludes()
+    }
+
     /// The figures of the arc with `revs` revolutions on `branch` from
     /// `depart_days` to `arrive_days` (days past J2000 TDB), or `None`
     /// when no such arc exists (arrival not after departure, degenerate
@@ -571,7 +596,14 @@ impl Leg<'_> {
                 .into_iter()
                 .find(|s| s.branch == branch)?
         };
-        Some(Figures::from_arc(&self.ends, &s1, &s2, tof_days, &sol))
+        Some(Figures::from_arc(
+            &self.ends,
+            &self.system.central,
+            &s1,
+            &s2,
+            tof_days,
+            &sol,
+        ))
     }
 }
 
@@ -612,7 +644,10 @@ pub fn arcs_between(
     let solutions = lambert::solve(&problem)?;
     Ok(solutions
         .into_iter()
-        .map(|sol| (Figures::from_arc(ends, &s1, &s2, tof_days, &sol), sol))
+        .map(|sol| {
+            let f = Figures::from_arc(ends, &system.central, &s1, &s2, tof_days, &sol);
+            (f, sol)
+        })
         .collect())
 }
 
@@ -707,9 +742,11 @@ mod tests {
     /// reference pole x body pole).
     #[test]
     fn tilted_frame_is_orthonormal_with_node_on_reference_plane() {
+        // An arbitrary tilted pole (not the Earth's: in the ecliptic that
+        // lies at longitude 90 deg; see ephemeris::catalog::frame_tests).
         let pole = Pole {
             lon_deg: 270.0,
-            lat_deg: 66.56,
+            lat_deg: 60.0,
         };
         let f = EquatorFrame::from_pole(&pole);
         assert_relative_eq!(f.x.z, 0.0, epsilon = 1e-15);

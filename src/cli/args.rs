@@ -22,13 +22,19 @@ pub struct Args {
 /// The subcommands.
 #[derive(Debug, Subcommand)]
 pub enum Command {
-    /// List a system's bodies: elements, periods and synodic periods.
+    /// List a system's bodies: elements, periods and synodic periods; with
+    /// --at, each body's position and velocity on a date.
     ///
-    /// Example: synodic bodies --system my-system.toml
+    /// Example: synodic bodies --system my-system.toml --at 2031-06-01
     Bodies {
         /// System file (TOML); the built-in demo system when omitted.
         #[arg(long, value_name = "FILE")]
         system: Option<PathBuf>,
+        /// Also print every body's position (km) and velocity (km/s) at
+        /// this date, in the system frame and, with a [frame], in the
+        /// celestial frame.
+        #[arg(long, value_name = "DATE")]
+        at: Option<String>,
         /// Print JSON instead of a table.
         #[arg(long)]
         json: bool,
@@ -89,7 +95,7 @@ pub struct ChartArgs {
     #[arg(long, value_name = "LIST", value_delimiter = ',')]
     pub vinf_levels: Option<Vec<f64>>,
     /// Shade the region with C3 at or below this ceiling (km^2/s^2).
-    #[arg(long, value_name = "C3")]
+    #[arg(long, value_name = "C3", allow_hyphen_values = true)]
     pub max_c3: Option<f64>,
     /// Draw this panel instead of the main chart: dla, arrive-dec or
     /// dv-total (total delta-v without parking or capture orbits).
@@ -138,16 +144,16 @@ pub struct WindowsArgs {
     pub tof_days: Option<String>,
     /// Launch-vehicle C3 ceiling (km^2/s^2): launch periods are reported
     /// against it.
-    #[arg(long, value_name = "C3")]
+    #[arg(long, value_name = "C3", allow_hyphen_values = true)]
     pub max_c3: Option<f64>,
     /// Arrival v-infinity ceiling (km/s).
     #[arg(long, value_name = "KM_S")]
     pub max_vinf_arrive: Option<f64>,
     /// Also search multi-revolution arcs with up to M revolutions.
-    #[arg(long, value_name = "M", default_value_t = 0)]
+    #[arg(long, value_name = "M", default_value_t = 0, allow_hyphen_values = true, value_parser = whole_number)]
     pub revs: u32,
     /// Length of a fixed-arrival-date launch period, in daily departures.
-    #[arg(long, value_name = "N", requires = "max_c3")]
+    #[arg(long, value_name = "N", requires = "max_c3", allow_hyphen_values = true, value_parser = whole_number)]
     pub launch_period_days: Option<u32>,
     /// Parking and capture orbits.
     #[command(flatten)]
@@ -168,6 +174,10 @@ pub struct WindowsArgs {
     /// Also save this run as a study file, to repeat it with `synodic run`.
     #[arg(long, value_name = "FILE")]
     pub save_study: Option<PathBuf>,
+    /// Let arcs flagged periapsis-inside or relativistic be optima and
+    /// count in launch periods.
+    #[arg(long)]
+    pub allow_flagged: bool,
 }
 
 /// Arguments of `synodic sweep`.
@@ -195,7 +205,7 @@ pub struct SweepArgs {
     #[arg(long, value_name = "D[,D]", default_value = "1")]
     pub step_days: String,
     /// Also solve multi-revolution arcs with up to M revolutions.
-    #[arg(long, value_name = "M", default_value_t = 0)]
+    #[arg(long, value_name = "M", default_value_t = 0, allow_hyphen_values = true, value_parser = whole_number)]
     pub revs: u32,
     /// Worker threads (one per core when omitted). Results do not depend
     /// on it.
@@ -229,12 +239,15 @@ pub struct SweepArgs {
     #[arg(long, value_name = "LIST", value_delimiter = ',')]
     pub vinf_levels: Option<Vec<f64>>,
     /// Shade the region with C3 at or below this ceiling (km^2/s^2).
-    #[arg(long, value_name = "C3")]
+    #[arg(long, value_name = "C3", allow_hyphen_values = true)]
     pub max_c3: Option<f64>,
     /// Extra chart panels, each written as chart-NAME.svg/.png:
     /// dla, arrive-dec, dv-total.
     #[arg(long, value_name = "LIST", value_delimiter = ',')]
     pub show: Vec<String>,
+    /// Let arcs flagged periapsis-inside or relativistic be optima.
+    #[arg(long)]
+    pub allow_flagged: bool,
 }
 
 /// Arguments of `synodic lambert`.
@@ -263,7 +276,7 @@ pub struct LambertArgs {
     #[arg(long, allow_hyphen_values = true, required_unless_present = "batch")]
     pub tof: Option<f64>,
     /// Also return solutions with up to this many complete revolutions.
-    #[arg(long, default_value_t = 0)]
+    #[arg(long, value_name = "M", default_value_t = 0, allow_hyphen_values = true, value_parser = whole_number)]
     pub revs: u32,
     /// Solve for retrograde motion (angular momentum along -z).
     #[arg(long)]
@@ -300,7 +313,7 @@ pub struct TransferArgs {
     #[command(flatten)]
     pub orbits: OrbitArgs,
     /// Also consider arcs with up to this many complete revolutions.
-    #[arg(long, default_value_t = 0)]
+    #[arg(long, value_name = "M", default_value_t = 0, allow_hyphen_values = true, value_parser = whole_number)]
     pub revs: u32,
     /// Print JSON instead of a table.
     #[arg(long)]
@@ -313,18 +326,27 @@ pub struct TransferArgs {
 pub struct OrbitArgs {
     /// Altitude of the circular parking orbit at departure (km); 200 km
     /// when omitted and the body has a GM and radius.
-    #[arg(long, value_name = "KM")]
+    #[arg(long, value_name = "KM", allow_hyphen_values = true)]
     pub park_alt_km: Option<f64>,
     /// Periapsis altitude of the capture orbit at arrival (km); no capture
     /// burn when omitted.
-    #[arg(long, value_name = "KM")]
+    #[arg(long, value_name = "KM", allow_hyphen_values = true)]
     pub capture_alt_km: Option<f64>,
     /// Eccentricity of the capture orbit.
     #[arg(
         long,
         value_name = "E",
         default_value_t = 0.0,
-        requires = "capture_alt_km"
+        requires = "capture_alt_km",
+        allow_hyphen_values = true
     )]
     pub capture_ecc: f64,
+}
+
+/// A count given on the command line: a whole number >= 0, with a message
+/// in those words (clap's own would quote Rust's integer parser).
+fn whole_number(text: &str) -> Result<u32, String> {
+    text.trim()
+        .parse::<u32>()
+        .map_err(|_| format!("expected a whole number >= 0, got {text:?}"))
 }

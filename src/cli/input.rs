@@ -82,6 +82,28 @@ pub fn day_of(days_since_j2000_tdb: f64) -> String {
     Epoch::from_days_since_j2000_tdb(days_since_j2000_tdb).date_tdb()
 }
 
+/// A date for study files and screens: `YYYY-MM-DD` at TDB midnight, else
+/// `YYYY-MM-DDThh:mm:ss[.fff]` (TDB, to the millisecond, so a resolved
+/// study keeps the instant the user gave). Files of results use the fixed
+/// form of [`synodic::export::stamp`] instead.
+pub fn compact_date(days_since_j2000_tdb: f64) -> String {
+    let iso = Epoch::from_days_since_j2000_tdb(days_since_j2000_tdb).to_iso_tdb();
+    let iso = iso.trim_end_matches(" TDB");
+    iso.strip_suffix("T00:00:00").unwrap_or(iso).to_string()
+}
+
+/// The unit of a screen column of times of flight: hours when every value
+/// is under 10 days (moon systems, where days would print as 2.7 or 0.1),
+/// else days. Returns the unit's label and the factor from days.
+pub fn tof_unit(tofs_days: impl IntoIterator<Item = f64>) -> (&'static str, f64) {
+    let longest = tofs_days.into_iter().fold(0.0, f64::max);
+    if longest < 10.0 {
+        ("h", 24.0)
+    } else {
+        ("d", 1.0)
+    }
+}
+
 /// Find two distinct bodies of `system` by name.
 pub fn body_pair(system: &System, from: &str, to: &str) -> CliResult<(usize, usize)> {
     let a = system.find(from)?;

@@ -16,7 +16,10 @@ use nalgebra::Vector3;
 use serde::Deserialize;
 use toml::Spanned;
 
-use super::elements::{mean_motion_deg_per_century, ElementRates, MeanElements, StateError};
+use super::elements::{
+    mean_motion_deg_per_century, ElementRates, ElementSet, EpochAngle, MeanElements, StateError,
+};
+use super::frame::Axes;
 use super::{AU_KM, JULIAN_CENTURY_DAYS};
 use crate::orbit::State;
 use crate::time::Epoch;
@@ -37,6 +40,13 @@ pub struct System {
     pub bodies: Vec<Body>,
     /// Where the system came from: the file path, or `built-in demo`.
     pub source: String,
+    /// The celestial pole of the file's `[frame]` (the pole of the equator
+    /// right ascensions are measured in), if given; without it the system
+    /// reference plane is the celestial equator.
+    pub celestial_pole: Option<Pole>,
+    /// The celestial frame ([`Axes::celestial`]): the system frame without
+    /// a `[frame]`.
+    pub celestial: Axes,
 }
 
 /// The central body of a system.
@@ -57,10 +67,14 @@ pub struct Body {
     pub name: String,
     /// Mean elements at the system epoch.
     pub elements: MeanElements,
-    /// Rates of the elements per Julian century. The mean-longitude rate,
-    /// when the file omits it, is the two-body mean motion
-    /// `sqrt(mu / a^3)` (Kepler's third law); the other rates default to 0.
+    /// Rates of the elements per Julian century. When the file gives no
+    /// rate of its mean longitude (or mean anomaly), that angle advances at
+    /// the two-body mean motion `sqrt(mu / a^3)` (Kepler's third law); the
+    /// other rates default to 0.
     pub rates: ElementRates,
+    /// The element set the file gave (the elements themselves are always
+    /// held as longitudes).
+    pub element_set: ElementSet,
     /// The body's own GM, km^3/s^2, if given (needed for parking-orbit and
     /// capture delta-v).
     pub mu_km3_s2: Option<f64>,
@@ -68,12 +82,17 @@ pub struct Body {
     pub radius_km: Option<f64>,
     /// Direction of the body's north pole, if given (for DLA/RLA).
     pub pole: Option<Pole>,
+    /// The body's equator frame ([`Axes::equator`]), in which asymptote
+    /// directions at this body are quoted: the celestial frame when the
+    /// body has no pole.
+    pub equator: Axes,
 }
 
 /// A direction in the system frame, as longitude and latitude.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct Pole {
-    /// Longitude in the system frame's reference plane, degrees.
+    /// Longitude in the system frame's reference plane, degrees in
+    /// [0, 360).
     pub lon_deg: f64,
     /// Latitude above the reference plane, degrees, in [-90, 90].
     pub lat_deg: f64,
@@ -163,9 +182,17 @@ pub enum CatalogError {
 struct RawSystem {
     name: Spanned<String>,
     epoch: Spanned<String>,
+    frame: Option<RawFrame>,
     central: RawCentral,
     #[serde(default)]
     body: Vec<Spanned<RawBody>>,
+}
+
+#[derive(Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawFrame {
+    celestial_pole_lon_deg: Spanned<f64>,
+    celestial_pole_lat_deg: Spanned<f64>,
 }
 
 #[derive(Deserialize)]
@@ -185,9 +212,14 @@ struct RawBody {
     e: Spanned<f64>,
     i_deg: Spanned<f64>,
     node_deg: Spanned<f64>,
-    peri_deg: Spanned<f64>,
-    mean_lon_deg: Spanned<f64>,
+    lon_peri_deg: Option<Spanned<f64>>,
+    arg_peri_deg: Option<Spanned<f64>>,
+    mean_lon_deg: Option<Spanned<f64>>,
+    mean_anom_deg: Option<Spanned<f64>>,
+    /// Retired (ambiguous): an error naming its replacements.
+    peri_deg: Option<Spanned<serde::de::IgnoredAny>>,
     rates: Option<Spanned<RawRates>>,
+    rate_check: Option<bool>,
     mu_km3_s2: Option<Spanned<f64>>,
     radius_km: Option<Spanned<f64>>,
     pole_lon_deg: Option<Spanned<f64>>,
@@ -202,8 +234,12 @@ struct RawRates {
     e: Option<Spanned<f64>>,
     i_deg: Option<Spanned<f64>>,
     node_deg: Option<Spanned<f64>>,
-    peri_deg: Option<Spanned<f64>>,
+    lon_peri_deg: Option<Spanned<f64>>,
+    arg_peri_deg: Option<Spanned<f64>>,
     mean_lon_deg: Option<Spanned<f64>>,
+    mean_anom_deg: Option<Spanned<f64>>,
+    /// Retired (ambiguous): an error naming its replacements.
+    peri_deg: Option<Spanned<serde::de::IgnoredAny>>,
 }
 
 /// Builds errors that point into one source text.
@@ -307,6 +343,28 @@ impl Locator<'_> {
         v.as_ref().map(|v| self.finite(v, context, key)).transpose()
     }
 
+    /// A direction given as longitude and latitude (keys `keys`): finite,
+    /// latitude in [-90, 90], longitude reduced to [0, 360).
+    fn pole(
+        &self,
+        lon: &Spanned<f64>,
+        lat: &Spanned<f64>,
+        context: &str,
+        keys: (&str, &str),
+    ) -> Result<Pole, CatalogError> {
+        let lon_deg = self.finite(lon, context, keys.0)?.rem_euclid(360.0);
+        let lat_deg = self.finite(lat, context, keys.1)?;
+        if !(-90.0..=90.0).contains(&lat_deg) {
+            return Err(self.invalid(
+                lat.span(),
+                context,
+                keys.1,
+                format!("must be in [-90, 90], got {lat_deg}"),
+            ));
+        }
+        Ok(Pole { lon_deg, lat_deg })
+    }
+
     fn name(&self, v: &Spanned<String>, context: &str) -> Result<String, CatalogError> {
         let name = v.get_ref().trim();
         if name.is_empty() {
@@ -327,6 +385,9 @@ impl System {
     /// ```toml
     /// name = "An example"                 # free text
     /// epoch = "2030-01-01T00:00:00 TDB"   # epoch of the elements (Epoch::parse)
+    /// [frame]                             # optional: the celestial equator
+    /// celestial_pole_lon_deg = 90.0       # its pole in the system frame
+    /// celestial_pole_lat_deg = 66.5607206 #   (here: the Earth's, in the ecliptic)
     /// [central]
     /// name = "Star"
     /// mu_km3_s2 = 1.3e11                  # GM, > 0
@@ -335,24 +396,33 @@ impl System {
     /// name = "Planet"                     # unique, ignoring case
     /// a_au = 1.0                          # or a_km: exactly one, > 0
     /// e = 0.01                            # in [0, 1)
-    /// i_deg = 1.0                         # inclination
+    /// i_deg = 1.0                         # inclination, in [0, 180]
     /// node_deg = 10.0                     # longitude of the ascending node
-    /// peri_deg = 100.0                    # longitude of periapsis
-    /// mean_lon_deg = 50.0                 # mean longitude at the epoch
-    /// rates = { peri_deg = 0.3 }          # optional, per Julian century; keys as
-    ///                                     # above (a_au or a_km); omitted = 0, except
-    ///                                     # mean_lon_deg: omitted = sqrt(mu/a^3)
+    /// lon_peri_deg = 100.0                # longitude of periapsis (node + argument);
+    ///                                     # or arg_peri_deg: exactly one
+    /// mean_lon_deg = 50.0                 # mean longitude at the epoch;
+    ///                                     # or mean_anom_deg: exactly one
+    /// rates = { lon_peri_deg = 0.3 }      # optional, per Julian century, keyed like
+    ///                                     # the elements (a_au or a_km); omitted = 0,
+    ///                                     # except the mean longitude (or anomaly):
+    ///                                     # omitted = sqrt(mu/a^3)
+    /// rate_check = true                   # optional: false lets a given mean-motion
+    ///                                     # rate differ from Kepler's third law
     /// mu_km3_s2 = 400000.0                # optional, > 0
     /// radius_km = 6400.0                  # optional, > 0
-    /// pole_lon_deg = 270.0                # optional pair: north pole direction
-    /// pole_lat_deg = 66.5                 # in the system frame, lat in [-90, 90]
+    /// pole_lon_deg = 90.0                 # optional pair: north pole direction
+    /// pole_lat_deg = 66.5607206           # in the system frame, lat in [-90, 90]
     /// ```
-    /// Integers are accepted wherever a number is expected.
+    /// Integers are accepted wherever a number is expected. Angles that
+    /// wrap (node, longitudes, anomaly, pole longitude) are reduced to
+    /// [0, 360).
     ///
     /// # Method
     /// TOML via the `toml` crate with serde (`deny_unknown_fields`), then
     /// the checks above. The derived mean-longitude rate is Kepler's third
-    /// law `n = sqrt(mu / a^3)` with the central GM and the epoch's `a`.
+    /// law `n = sqrt(mu / a^3)` with the central GM and the epoch's `a`; a
+    /// given one must agree within 1 % with `sqrt((mu + mu_body) / a^3)`
+    /// unless `rate_check = false`.
     ///
     /// # Units
     /// As the key names say; `a_au` is converted with [`AU_KM`].
@@ -360,14 +430,18 @@ impl System {
     /// # Errors
     /// [`CatalogError::Syntax`] for malformed TOML, missing or unknown keys
     /// and wrong types; [`CatalogError::Invalid`] for out-of-range or
-    /// non-finite values, both or neither of `a_au`/`a_km`, half a pole,
-    /// duplicate names and an unreadable epoch; [`CatalogError::NoBodies`]
-    /// without any `[[body]]`. Each names `source`, the line and the key.
+    /// non-finite values, both or neither of `a_au`/`a_km`,
+    /// `lon_peri_deg`/`arg_peri_deg` or `mean_lon_deg`/`mean_anom_deg`,
+    /// the retired `peri_deg`, a rate keyed unlike its element, a
+    /// mean-motion rate off Kepler's third law, half a pole, duplicate
+    /// names and an unreadable epoch; [`CatalogError::NoBodies`] without
+    /// any `[[body]]`. Each names `source`, the line and the key.
     pub fn from_toml_str(text: &str, source: &str) -> Result<System, CatalogError> {
         let loc = Locator { text, file: source };
         let raw: RawSystem = toml::from_str(text).map_err(|e| {
             let line = e.span().map_or(1, |s| loc.line(s.start));
-            let mut message = e.message().trim().to_string();
+            let value = e.span().and_then(|s| text.get(s));
+            let mut message = crate::error::plain_toml_message(e.message(), value);
             // A missing key is reported at its table's header: say which.
             if let Some(header) = e.span().and_then(|s| loc.line_text(s.start)) {
                 if header.starts_with('[') {
@@ -390,6 +464,16 @@ impl System {
         let epoch = Epoch::parse(raw.epoch.get_ref())
             .map_err(|e| loc.invalid(raw.epoch.span(), "", "epoch", e.to_string()))?;
 
+        let celestial_pole = match &raw.frame {
+            Some(f) => Some(loc.pole(
+                &f.celestial_pole_lon_deg,
+                &f.celestial_pole_lat_deg,
+                "frame: ",
+                ("celestial_pole_lon_deg", "celestial_pole_lat_deg"),
+            )?),
+            None => None,
+        };
+        let celestial = Axes::celestial(celestial_pole.map(|p| p.unit_vector()).as_ref());
         let c = &raw.central;
         let central = CentralBody {
             name: loc.name(&c.name, "central: ")?,
@@ -422,7 +506,8 @@ impl System {
                     ),
                 ));
             }
-            let body = read_body(&loc, spanned, &ctx, body_name, central.mu_km3_s2)?;
+            let mut body = read_body(&loc, spanned, &ctx, body_name, central.mu_km3_s2)?;
+            body.equator = Axes::equator(&celestial, body.pole.map(|p| p.unit_vector()).as_ref());
             name_lines.push(loc.line(b.name.span().start));
             bodies.push(body);
         }
@@ -432,6 +517,8 @@ impl System {
             central,
             bodies,
             source: source.to_string(),
+            celestial_pole,
+            celestial,
         })
     }
 
@@ -570,16 +657,36 @@ impl System {
         std::f64::consts::TAU * (a * a * a / self.central.mu_km3_s2).sqrt() / 86400.0
     }
 
-    /// Synodic period of bodies `a` and `b`: the time between successive
-    /// alignments, [`synodic_period_days`] of their periods.
+    /// [`System::period_days`] with the sense of motion: negative for a
+    /// retrograde orbit (inclination above 90 deg), whose longitude in the
+    /// reference plane decreases.
     ///
     /// # Units
-    /// Days; infinite for equal periods.
+    /// Days.
+    ///
+    /// # Panics
+    /// If `body >= self.bodies.len()`.
+    pub fn signed_period_days(&self, body: usize) -> f64 {
+        let p = self.period_days(body);
+        if self.bodies[body].elements.i_deg > 90.0 {
+            -p
+        } else {
+            p
+        }
+    }
+
+    /// Synodic period of bodies `a` and `b`: the time between successive
+    /// alignments, [`synodic_period_days`] of their signed periods
+    /// ([`System::signed_period_days`]), so a retrograde body counts its
+    /// mean motion as negative.
+    ///
+    /// # Units
+    /// Days; infinite for equal periods in the same sense.
     ///
     /// # Panics
     /// If either index is out of range.
     pub fn synodic_period_days(&self, a: usize, b: usize) -> f64 {
-        synodic_period_days(self.period_days(a), self.period_days(b))
+        synodic_period_days(self.signed_period_days(a), self.signed_period_days(b))
     }
 }
 
@@ -587,7 +694,9 @@ impl System {
 ///
 /// # Method
 /// The relative angular rate of two circular orbits is `2 pi (1/Pa - 1/Pb)`;
-/// the synodic period is one full turn at that rate.
+/// the synodic period is one full turn at that rate. Periods are signed: a
+/// retrograde orbit's is negative, so a prograde and a retrograde body of
+/// period P meet every P / 2.
 ///
 /// # Units
 /// Days in, days out. Equal periods give `f64::INFINITY` (the two bodies
@@ -647,17 +756,28 @@ fn read_body(
     if !(0.0..1.0).contains(&e) {
         return Err(loc.invalid(b.e.span(), ctx, "e", format!("must be in [0, 1), got {e}")));
     }
+    let angles = angles::read_angles(loc, b, ctx)?;
     let elements = MeanElements {
         a_km,
         e,
-        i_deg: loc.finite(&b.i_deg, ctx, "i_deg")?,
-        node_deg: loc.finite(&b.node_deg, ctx, "node_deg")?,
-        peri_deg: loc.finite(&b.peri_deg, ctx, "peri_deg")?,
-        mean_lon_deg: loc.finite(&b.mean_lon_deg, ctx, "mean_lon_deg")?,
+        i_deg: angles.i_deg,
+        node_deg: angles.node_deg,
+        peri_deg: angles.lon_peri_deg,
+        mean_lon_deg: angles.mean_lon_deg,
     };
-
+    let n_deg_cy = mean_motion_deg_per_century(a_km, central_mu_km3_s2);
     let mut rates = ElementRates {
-        mean_lon_deg: mean_motion_deg_per_century(a_km, central_mu_km3_s2),
+        i_deg: angles.i_rate,
+        node_deg: angles.node_rate,
+        peri_deg: angles.lon_peri_rate,
+        // Omitted: the two-body mean motion, as the rate of the angle the
+        // file gave (mean longitude, or mean anomaly on a turning apse).
+        mean_lon_deg: angles
+            .mean_lon_rate
+            .unwrap_or(match angles.set.epoch_angle {
+                EpochAngle::MeanLongitude => n_deg_cy,
+                EpochAngle::MeanAnomaly => angles.lon_peri_rate + n_deg_cy,
+            }),
         ..ElementRates::default()
     };
     if let Some(r) = &b.rates {
@@ -688,17 +808,16 @@ fn read_body(
             (None, None) => 0.0,
         };
         rates.e = loc.opt_finite(&r.e, &rctx, "e")?.unwrap_or(0.0);
-        rates.i_deg = loc.opt_finite(&r.i_deg, &rctx, "i_deg")?.unwrap_or(0.0);
-        rates.node_deg = loc
-            .opt_finite(&r.node_deg, &rctx, "node_deg")?
-            .unwrap_or(0.0);
-        rates.peri_deg = loc
-            .opt_finite(&r.peri_deg, &rctx, "peri_deg")?
-            .unwrap_or(0.0);
-        if let Some(n) = loc.opt_finite(&r.mean_lon_deg, &rctx, "mean_lon_deg")? {
-            rates.mean_lon_deg = n;
-        }
     }
+    let mu_body = loc.opt_positive(&b.mu_km3_s2, ctx, "mu_km3_s2")?;
+    angles::check_rate(
+        loc,
+        b,
+        ctx,
+        angles.set,
+        a_km,
+        central_mu_km3_s2 + mu_body.unwrap_or(0.0),
+    )?;
 
     // The checks above should make the state at the epoch finite; if some
     // combination still does not, refuse the body rather than let NaN into
@@ -718,33 +837,15 @@ fn read_body(
 
     let pole = match (&b.pole_lon_deg, &b.pole_lat_deg) {
         (Some(lon), Some(lat)) => {
-            let lon_deg = loc.finite(lon, ctx, "pole_lon_deg")?;
-            let lat_deg = loc.finite(lat, ctx, "pole_lat_deg")?;
-            if !(-90.0..=90.0).contains(&lat_deg) {
-                return Err(loc.invalid(
-                    lat.span(),
-                    ctx,
-                    "pole_lat_deg",
-                    format!("must be in [-90, 90], got {lat_deg}"),
-                ));
-            }
-            Some(Pole { lon_deg, lat_deg })
+            Some(loc.pole(lon, lat, ctx, ("pole_lon_deg", "pole_lat_deg"))?)
         }
-        (Some(lon), None) => {
-            return Err(loc.invalid(
-                lon.span(),
-                ctx,
-                "pole_lat_deg",
-                "missing: pole_lon_deg and pole_lat_deg go together".to_string(),
-            ))
-        }
-        (None, Some(lat)) => {
-            return Err(loc.invalid(
-                lat.span(),
-                ctx,
-                "pole_lon_deg",
-                "missing: pole_lon_deg and pole_lat_deg go together".to_string(),
-            ))
+        (Some(half), None) | (None, Some(half)) => {
+            let missing = match b.pole_lon_deg {
+                Some(_) => "pole_lat_deg",
+                None => "pole_lon_deg",
+            };
+            let why = "missing: pole_lon_deg and pole_lat_deg go together".to_string();
+            return Err(loc.invalid(half.span(), ctx, missing, why));
         }
         (None, None) => None,
     };
@@ -753,9 +854,12 @@ fn read_body(
         name,
         elements,
         rates,
-        mu_km3_s2: loc.opt_positive(&b.mu_km3_s2, ctx, "mu_km3_s2")?,
+        element_set: angles.set,
+        mu_km3_s2: mu_body,
         radius_km: loc.opt_positive(&b.radius_km, ctx, "radius_km")?,
         pole,
+        // Set by the caller, which knows the celestial frame.
+        equator: Axes::system(),
     })
 }
 
@@ -779,5 +883,11 @@ fn levenshtein(a: &str, b: &str) -> usize {
     prev[b.len()]
 }
 
+mod angles;
+
+#[cfg(test)]
+mod frame_tests;
 #[cfg(test)]
 mod tests;
+#[cfg(test)]
+mod trust_tests;

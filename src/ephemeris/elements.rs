@@ -56,6 +56,61 @@ pub struct ElementRates {
     pub mean_lon_deg: f64,
 }
 
+/// The angle that places the periapsis, as a system file gives it.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum PeriapsisAngle {
+    /// Longitude of periapsis (node + argument of periapsis, the "dog-leg"
+    /// angle of planetary tables): key `lon_peri_deg`.
+    Longitude,
+    /// Argument of periapsis, from the ascending node: key `arg_peri_deg`.
+    Argument,
+}
+
+/// The angle that places the body on its orbit at the epoch, as a system
+/// file gives it.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum EpochAngle {
+    /// Mean longitude (longitude of periapsis + mean anomaly): key
+    /// `mean_lon_deg`.
+    MeanLongitude,
+    /// Mean anomaly at the epoch: key `mean_anom_deg`.
+    MeanAnomaly,
+}
+
+/// Which element set a body's file entry used; [`MeanElements`] always
+/// holds the longitudes, the other angles follow
+/// ([`MeanElements::arg_peri_deg`], [`MeanElements::mean_anom_deg`]).
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub struct ElementSet {
+    /// How the periapsis was given.
+    pub periapsis: PeriapsisAngle,
+    /// How the position at the epoch was given.
+    pub epoch_angle: EpochAngle,
+}
+
+impl ElementSet {
+    /// The longitudes of planetary tables (`lon_peri_deg`, `mean_lon_deg`).
+    pub const LONGITUDES: ElementSet = ElementSet {
+        periapsis: PeriapsisAngle::Longitude,
+        epoch_angle: EpochAngle::MeanLongitude,
+    };
+
+    /// The system-file keys of the two angles, e.g.
+    /// `("lon_peri_deg", "mean_lon_deg")`.
+    pub fn keys(&self) -> (&'static str, &'static str) {
+        (
+            match self.periapsis {
+                PeriapsisAngle::Longitude => "lon_peri_deg",
+                PeriapsisAngle::Argument => "arg_peri_deg",
+            },
+            match self.epoch_angle {
+                EpochAngle::MeanLongitude => "mean_lon_deg",
+                EpochAngle::MeanAnomaly => "mean_anom_deg",
+            },
+        )
+    }
+}
+
 /// The mean motion of a two-body orbit, by Kepler's third law.
 ///
 /// # Method
@@ -71,6 +126,16 @@ pub fn mean_motion_deg_per_century(a_km: f64, mu_km3_s2: f64) -> f64 {
 }
 
 impl MeanElements {
+    /// Argument of periapsis, `peri_deg - node_deg`, degrees in [0, 360).
+    pub fn arg_peri_deg(&self) -> f64 {
+        (self.peri_deg - self.node_deg).rem_euclid(360.0)
+    }
+
+    /// Mean anomaly, `mean_lon_deg - peri_deg`, degrees in [0, 360).
+    pub fn mean_anom_deg(&self) -> f64 {
+        (self.mean_lon_deg - self.peri_deg).rem_euclid(360.0)
+    }
+
     /// The elements `centuries` Julian centuries after their epoch:
     /// each element plus its rate times `centuries`.
     ///

@@ -21,11 +21,15 @@
 
 pub mod catalog;
 pub mod elements;
+pub mod frame;
 pub mod kepler;
 pub mod source;
 
 pub use catalog::{synodic_period_days, Body, CatalogError, CentralBody, Pole, System};
-pub use elements::{ElementRates, MeanElements, StateError};
+pub use elements::{
+    ElementRates, ElementSet, EpochAngle, MeanElements, PeriapsisAngle, StateError,
+};
+pub use frame::Axes;
 pub use kepler::KeplerError;
 
 /// The astronomical unit, km (exact by definition).

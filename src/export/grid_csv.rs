@@ -5,13 +5,13 @@ use std::fmt::Write as _;
 
 use std::path::Path;
 
+use super::dates::{stamp, Stamp};
 use super::ExportError;
 use crate::sweep::{Axis, CellStatus, Grid, Layer, SecondAxis};
-use crate::time::{Epoch, J2000_JD};
-use crate::transfer::Endpoints;
+use crate::transfer::{ArcFlags, Endpoints};
 
 /// The header of `grid.csv`, units in the column names.
-pub const GRID_COLUMNS: [&str; 20] = [
+pub const GRID_COLUMNS: [&str; 21] = [
     "depart_jd_tdb",
     "arrive_jd_tdb",
     "depart_date",
@@ -32,28 +32,19 @@ pub const GRID_COLUMNS: [&str; 20] = [
     "dv_arrive_km_s",
     "dv_total_km_s",
     "status",
+    "flags",
 ];
 
-/// A date for a file: `YYYY-MM-DD` at TDB midnight, else
-/// `YYYY-MM-DDThh:mm:ss` (TDB).
-pub fn file_date(days_since_j2000_tdb: f64) -> String {
-    let iso = Epoch::from_days_since_j2000_tdb(days_since_j2000_tdb).to_iso_tdb();
-    let iso = iso.trim_end_matches(" TDB");
-    match iso.strip_suffix("T00:00:00") {
-        Some(date) => date.to_string(),
-        None => iso.to_string(),
-    }
-}
-
 /// Encode a grid as CSV, rows ordered by departure, then second axis, then
-/// layer. Figures of cells whose status is not ok are left empty.
+/// layer. Figures of cells whose status is not ok are left empty; `flags`
+/// holds the cell's sanity flags ([`ArcFlags`], `;`-separated).
 /// Numbers use fixed decimals, so equal grids give equal bytes.
 pub fn grid_csv(grid: &Grid, ends: &Endpoints) -> Vec<u8> {
-    let mut dates: HashMap<u64, String> = HashMap::new();
-    let mut date = |days: f64| -> String {
+    let mut dates: HashMap<u64, Stamp> = HashMap::new();
+    let mut date = |days: f64| -> Stamp {
         dates
             .entry(days.to_bits())
-            .or_insert_with(|| file_date(days))
+            .or_insert_with(|| stamp(days))
             .clone()
     };
     let n_layers = grid.layers.len();
@@ -63,8 +54,15 @@ pub fn grid_csv(grid: &Grid, ends: &Endpoints) -> Vec<u8> {
     for i in 0..grid.depart.count {
         for j in 0..grid.second.count {
             let (d, a) = grid.dates_days(i, j);
-            let (dj, aj) = (d + J2000_JD, a + J2000_JD);
-            let prefix = format!("{dj:.6},{aj:.6},{},{},{:.6}", date(d), date(a), a - d);
+            let (sd, sa) = (date(d), date(a));
+            let prefix = format!(
+                "{:.6},{:.6},{},{},{:.6}",
+                sd.jd_tdb,
+                sa.jd_tdb,
+                sd.date,
+                sa.date,
+                a - d
+            );
             for (l, layer) in grid.layers.iter().enumerate() {
                 let idx = grid.index(i, j, l);
                 let status = grid.status_at(idx);
@@ -94,6 +92,8 @@ pub fn grid_csv(grid: &Grid, ends: &Endpoints) -> Vec<u8> {
                     out.push_str(",,,,,,,,,,,,");
                 }
                 out.push_str(status.as_str());
+                out.push(',');
+                out.push_str(&grid.flags_at(idx).to_text());
                 out.push('\n');
             }
         }
@@ -172,6 +172,9 @@ pub fn read_grid_csv(
             }
         };
         grid.status[k] = status as u8;
+        grid.flags[k] = ArcFlags::parse(f[20])
+            .ok_or_else(|| err(line, format!("column `flags`: unknown value {:?}", f[20])))?
+            .bits();
         if status == CellStatus::Ok {
             let num = |c: usize| -> Result<f64, ExportError> {
                 f[c].parse::<f64>()

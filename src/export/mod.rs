@@ -6,11 +6,13 @@
 //! any step leaves the destination as it was (absent or the old complete
 //! file) and removes the temporary file.
 
+mod dates;
 mod grid_csv;
 mod windows_csv;
 
-pub use grid_csv::{file_date, grid_csv, read_grid_csv, GRID_COLUMNS};
-pub use windows_csv::{launch_period_csv, table_date, windows_csv, WindowRecord, WINDOW_COLUMNS};
+pub use dates::{file_date, stamp, Stamp, JD_DECIMALS};
+pub use grid_csv::{grid_csv, read_grid_csv, GRID_COLUMNS};
+pub use windows_csv::{launch_period_csv, windows_csv, WindowRecord, WINDOW_COLUMNS};
 
 use std::io::Write;
 use std::path::{Path, PathBuf};

@@ -4,19 +4,21 @@
 use serde::Serialize;
 
 use crate::sweep::Objective;
-use crate::time::J2000_JD;
 use crate::windows::launch::{FixedArrivalPeriod, LaunchPeriod};
 use crate::windows::Optimum;
 
-use super::file_date;
+use super::dates::{stamp, Stamp};
 
 /// One row of the best-window table, as written to CSV and JSON.
 ///
-/// Column names carry their units; dates are TDB. Launch-period columns
-/// are empty without a C3 ceiling (or a launch-period length).
+/// Column names carry their units; dates are TDB, `YYYY-MM-DDThh:mm:ss`,
+/// each beside its Julian date and made from the same value
+/// ([`super::stamp`]). Launch-period columns are empty without a C3
+/// ceiling (or a launch-period length).
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct WindowRecord {
-    /// Opportunity label: year of departure (TDB).
+    /// Opportunity label: the TDB date `YYYY-MM-DD` of the opportunity's
+    /// best departure (a letter appended where two share a date).
     pub opportunity: String,
     /// `I` or `II`.
     #[serde(rename = "type")]
@@ -57,27 +59,30 @@ pub struct WindowRecord {
     pub objective_value: f64,
     /// Its value at the grid cell the refinement started from.
     pub grid_value: f64,
-    /// `ridge`, `edge`, `over-limit`, separated by `;` (empty: none).
+    /// `ridge`, `edge`, `over-limit` and the arc's sanity flags
+    /// (`periapsis-inside`, `hyperbolic`, `relativistic`), separated by `;`
+    /// (empty: none).
     pub flags: String,
     /// First open departure date under the C3 ceiling.
     pub launch_first_date: Option<String>,
+    /// Its Julian date, TDB.
+    pub launch_first_jd_tdb: Option<f64>,
     /// Last open departure date under the C3 ceiling.
     pub launch_last_date: Option<String>,
+    /// Its Julian date, TDB.
+    pub launch_last_jd_tdb: Option<f64>,
     /// Days from first to last open departure.
     pub launch_days_open: Option<f64>,
     /// Fixed arrival date of the N-day launch period.
     pub fixed_arrive_date: Option<String>,
+    /// Its Julian date, TDB.
+    pub fixed_arrive_jd_tdb: Option<f64>,
     /// First departure of the N-day launch period.
     pub fixed_first_date: Option<String>,
+    /// Its Julian date, TDB.
+    pub fixed_first_jd_tdb: Option<f64>,
     /// Largest C3 over the N-day launch period, km^2/s^2.
     pub fixed_max_c3_km2_s2: Option<f64>,
-}
-
-/// A date for the table, rounded to the nearest 0.01 day and printed as
-/// `YYYY-MM-DDThh:mm:ss` TDB.
-pub fn table_date(days_since_j2000_tdb: f64) -> String {
-    let rounded = (days_since_j2000_tdb * 100.0).round() / 100.0;
-    file_date(rounded)
 }
 
 impl WindowRecord {
@@ -101,19 +106,30 @@ impl WindowRecord {
         if over_limit {
             flags.push("over-limit");
         }
+        flags.extend(opt.figures.flags.names());
         let round = |x: f64, k: i32| {
             let s = 10f64.powi(k);
             (x * s).round() / s
         };
+        let (depart, arrive) = (stamp(opt.depart_days), stamp(opt.arrive_days));
+        let split = |s: Stamp| (Some(s.date), Some(s.jd_tdb));
+        let (launch_first_date, launch_first_jd_tdb) =
+            launch.map_or((None, None), |l| split(stamp(l.first_days)));
+        let (launch_last_date, launch_last_jd_tdb) =
+            launch.map_or((None, None), |l| split(stamp(l.last_days)));
+        let (fixed_arrive_date, fixed_arrive_jd_tdb) =
+            fixed.map_or((None, None), |p| split(stamp(p.arrive_days)));
+        let (fixed_first_date, fixed_first_jd_tdb) =
+            fixed.map_or((None, None), |p| split(stamp(p.first_days)));
         WindowRecord {
             opportunity: opportunity.to_string(),
             kind: opt.kind.to_string(),
             revs: opt.layer.revs,
             branch: opt.layer.branch.to_string(),
-            depart_jd_tdb: round(opt.depart_days + J2000_JD, 4),
-            arrive_jd_tdb: round(opt.arrive_days + J2000_JD, 4),
-            depart_date: table_date(opt.depart_days),
-            arrive_date: table_date(opt.arrive_days),
+            depart_jd_tdb: depart.jd_tdb,
+            arrive_jd_tdb: arrive.jd_tdb,
+            depart_date: depart.date,
+            arrive_date: arrive.date,
             tof_days: round(opt.arrive_days - opt.depart_days, 3),
             c3_km2_s2: round(f.c3_km2_s2, 5),
             dla_deg: round(f.dla_deg, 4),
@@ -127,11 +143,15 @@ impl WindowRecord {
             objective_value: round(opt.value, 6),
             grid_value: round(opt.grid_value, 6),
             flags: flags.join(";"),
-            launch_first_date: launch.map(|l| table_date(l.first_days)),
-            launch_last_date: launch.map(|l| table_date(l.last_days)),
+            launch_first_date,
+            launch_first_jd_tdb,
+            launch_last_date,
+            launch_last_jd_tdb,
             launch_days_open: launch.map(|l| round(l.days_open(), 2)),
-            fixed_arrive_date: fixed.map(|p| table_date(p.arrive_days)),
-            fixed_first_date: fixed.map(|p| table_date(p.first_days)),
+            fixed_arrive_date,
+            fixed_arrive_jd_tdb,
+            fixed_first_date,
+            fixed_first_jd_tdb,
             fixed_max_c3_km2_s2: fixed.map(|p| round(p.max_c3_km2_s2, 5)),
         }
     }
@@ -154,7 +174,7 @@ pub fn windows_csv(records: &[WindowRecord]) -> Result<Vec<u8>, csv::Error> {
 }
 
 /// The header of `windows.csv`.
-pub const WINDOW_COLUMNS: [&str; 27] = [
+pub const WINDOW_COLUMNS: [&str; 31] = [
     "opportunity",
     "type",
     "revs",
@@ -177,10 +197,14 @@ pub const WINDOW_COLUMNS: [&str; 27] = [
     "grid_value",
     "flags",
     "launch_first_date",
+    "launch_first_jd_tdb",
     "launch_last_date",
+    "launch_last_jd_tdb",
     "launch_days_open",
     "fixed_arrive_date",
+    "fixed_arrive_jd_tdb",
     "fixed_first_date",
+    "fixed_first_jd_tdb",
     "fixed_max_c3_km2_s2",
 ];
 
@@ -191,15 +215,13 @@ pub fn launch_period_csv(p: &FixedArrivalPeriod) -> Vec<u8> {
     let mut s = String::from(
         "depart_date,depart_jd_tdb,arrive_date,arrive_jd_tdb,c3_km2_s2,dla_deg,rla_deg,vinf_arrive_km_s\n",
     );
-    let arrive = table_date(p.arrive_days);
+    let arrive = stamp(p.arrive_days);
     for row in &p.daily {
+        let depart = stamp(row.depart_days);
         let _ = write!(
             s,
-            "{},{:.4},{},{:.4},",
-            table_date(row.depart_days),
-            row.depart_days + J2000_JD,
-            arrive,
-            p.arrive_days + J2000_JD
+            "{},{:.6},{},{:.6},",
+            depart.date, depart.jd_tdb, arrive.date, arrive.jd_tdb
         );
         match &row.figures {
             Some(f) => {

@@ -2,7 +2,7 @@
 
 use crate::lambert::Branch;
 use crate::time::Epoch;
-use crate::transfer::{dec_ra_deg_of_unit, TransferType};
+use crate::transfer::{dec_ra_deg_of_unit, ArcFlags, TransferType};
 
 /// An evenly spaced axis of dates or durations.
 ///
@@ -35,8 +35,13 @@ impl Axis {
                 end_days,
             });
         }
-        // A hair of tolerance so that 0..10 step 0.1 includes 10.
-        let count = ((end_days - start_days) / step_days * (1.0 + 1e-12)).floor() as usize + 1;
+        // A hair of tolerance so that 0..10 step 0.1 includes 10, and
+        // SPAN_SLACK_DAYS so that a span given in UTC or TT keeps its last
+        // day: converted to TDB, its two ends differ by whole days plus the
+        // change of the periodic TDB - TT term between them (a few ms).
+        let count = ((end_days - start_days + SPAN_SLACK_DAYS) / step_days * (1.0 + 1e-12)).floor()
+            as usize
+            + 1;
         Ok(Axis {
             start_days,
             step_days,
@@ -60,6 +65,13 @@ impl Axis {
         (0..self.count).map(|i| self.value(i)).collect()
     }
 }
+
+/// How far (days) an axis may fall short of landing on its end and still
+/// include it: 10 ms, over the 3.3 ms peak-to-peak of the periodic
+/// TDB - TT term (amplitude 1.66 ms; Fairhead & Bretagnon 1990, from
+/// memory), which makes a UTC or TT span a few ms longer or shorter than
+/// whole TDB days.
+const SPAN_SLACK_DAYS: f64 = 0.01 / 86_400.0;
 
 /// Why an axis could not be built.
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
@@ -152,7 +164,7 @@ pub fn layers_for(max_revs: u32) -> Vec<Layer> {
 }
 
 /// Bytes of grid storage per cell and layer (see [`Grid`]).
-pub const BYTES_PER_CELL_LAYER: usize = 2 * 8 + 2 * 3 * 4 + 4 + 1;
+pub const BYTES_PER_CELL_LAYER: usize = 2 * 8 + 2 * 3 * 4 + 4 + 1 + 1;
 
 /// Result of a sweep, as a struct of arrays.
 ///
@@ -162,8 +174,8 @@ pub const BYTES_PER_CELL_LAYER: usize = 2 * 8 + 2 * 3 * 4 + 4 + 1;
 /// asymptote directions as f32 unit vectors in the bodies' equator frames
 /// (angles good to about 1e-5 deg, far below what mean elements support)
 /// and the transfer angle as f32. C3, DLA, RLA, declinations, delta-v and
-/// time of flight are derived on reading, not stored:
-/// [`BYTES_PER_CELL_LAYER`] = 45 bytes.
+/// time of flight are derived on reading, not stored; sanity flags
+/// ([`ArcFlags`]) take one byte: [`BYTES_PER_CELL_LAYER`] = 46 bytes.
 #[derive(Debug, Clone, PartialEq)]
 pub struct Grid {
     /// Departure dates.
@@ -188,6 +200,8 @@ pub struct Grid {
     pub transfer_angle_deg: Vec<f32>,
     /// [`CellStatus`] as u8.
     pub status: Vec<u8>,
+    /// [`ArcFlags`] bits of ok cells (0 otherwise).
+    pub flags: Vec<u8>,
 }
 
 impl Grid {
@@ -206,6 +220,7 @@ impl Grid {
             arrive_dir: vec![[f32::NAN; 3]; n],
             transfer_angle_deg: vec![f32::NAN; n],
             status: vec![CellStatus::NoSolution as u8; n],
+            flags: vec![0; n],
         }
     }
 
@@ -230,6 +245,7 @@ impl Grid {
             arrive_dir: vec![[0.0; 3]; n],
             transfer_angle_deg: vec![0.0; n],
             status: vec![0; n],
+            flags: vec![0; n],
         }
     }
 
@@ -277,6 +293,19 @@ impl Grid {
     /// Status of a cell.
     pub fn status_at(&self, idx: usize) -> CellStatus {
         CellStatus::from_u8(self.status[idx])
+    }
+
+    /// Sanity flags of a cell (none unless its status is ok).
+    pub fn flags_at(&self, idx: usize) -> ArcFlags {
+        ArcFlags::from_bits(self.flags[idx])
+    }
+
+    /// Whether a cell is solved and may be an optimum: ok, and not flagged
+    /// `periapsis-inside` or `relativistic` unless `allow_flagged`.
+    #[inline]
+    pub fn usable(&self, idx: usize, allow_flagged: bool) -> bool {
+        self.status[idx] == CellStatus::Ok as u8
+            && (allow_flagged || !self.flags_at(idx).excludes())
     }
 
     /// C3 at an index, km^2/s^2 (NaN unless the status is ok).

@@ -1,8 +1,8 @@
 //! Grid minima of a design objective, per solution layer and Type.
 
-use crate::transfer::{Endpoints, TransferType};
+use crate::transfer::{ArcFlags, Endpoints, TransferType};
 
-use super::grid::{CellStatus, Grid};
+use super::grid::Grid;
 
 /// What a design minimises.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
@@ -68,19 +68,42 @@ pub struct GridMinimum {
     pub j: usize,
     /// Objective value there.
     pub value: f64,
+    /// The cell lies on a limit of the grid (first or last value of either
+    /// axis): the true minimum may lie beyond it.
+    pub edge: bool,
+    /// The cell's sanity flags.
+    pub flags: ArcFlags,
 }
 
 /// The minimum of `objective` over the ok cells of each (layer, Type)
-/// group, in layer order then Type I before II. Groups without an ok cell
-/// are left out. Ties keep the first cell in storage order.
+/// group, in layer order then Type I before II, passing over cells flagged
+/// `periapsis-inside` or `relativistic` ([`grid_minima_with`] with
+/// `allow_flagged = false`).
 pub fn grid_minima(grid: &Grid, ends: &Endpoints, objective: Objective) -> Vec<GridMinimum> {
+    grid_minima_with(grid, ends, objective, false)
+}
+
+/// The minimum of `objective` over the usable cells ([`Grid::usable`]) of
+/// each (layer, Type) group, in layer order then Type I before II. Groups
+/// without a usable cell are left out. Ties keep the first cell in
+/// storage order.
+pub fn grid_minima_with(
+    grid: &Grid,
+    ends: &Endpoints,
+    objective: Objective,
+    allow_flagged: bool,
+) -> Vec<GridMinimum> {
     let nl = grid.layers.len();
+    let (last_i, last_j) = (
+        grid.depart.count.saturating_sub(1),
+        grid.second.count.saturating_sub(1),
+    );
     let mut best: Vec<[Option<GridMinimum>; 2]> = vec![[None, None]; nl];
     for i in 0..grid.depart.count {
         for j in 0..grid.second.count {
             for (l, slot) in best.iter_mut().enumerate() {
                 let idx = grid.index(i, j, l);
-                if grid.status[idx] != CellStatus::Ok as u8 {
+                if !grid.usable(idx, allow_flagged) {
                     continue;
                 }
                 let v =
@@ -94,6 +117,8 @@ pub fn grid_minima(grid: &Grid, ends: &Endpoints, objective: Objective) -> Vec<G
                         i,
                         j,
                         value: v,
+                        edge: i == 0 || j == 0 || i == last_i || j == last_j,
+                        flags: grid.flags_at(idx),
                     });
                 }
             }

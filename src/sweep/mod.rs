@@ -14,7 +14,7 @@ mod minima;
 pub use grid::{
     layers_for, Axis, AxisError, CellStatus, Grid, Layer, SecondAxis, BYTES_PER_CELL_LAYER,
 };
-pub use minima::{grid_minima, GridMinimum, Objective};
+pub use minima::{grid_minima, grid_minima_with, GridMinimum, Objective};
 
 use nalgebra::Vector3;
 use rayon::prelude::*;
@@ -22,7 +22,7 @@ use rayon::prelude::*;
 use crate::ephemeris::System;
 use crate::lambert::{self, Branch, Direction, LambertError, LambertProblem, LambertSolution};
 use crate::orbit::State;
-use crate::transfer::{Endpoints, SECONDS_PER_DAY};
+use crate::transfer::{ArcFlags, Endpoints, SECONDS_PER_DAY};
 
 /// Everything that defines a sweep.
 #[derive(Debug, Clone)]
@@ -164,6 +164,7 @@ fn sweep_in_pool<F: Fn() + Sync>(system: &System, spec: &SweepSpec, on_row: &F) 
         spec,
         system,
         mu: system.central.mu_km3_s2,
+        radius_km: system.central.radius_km,
         n_layers: grid.layers.len(),
         dep_states: &dep_states.states,
         arrivals: &arrivals,
@@ -179,10 +180,11 @@ fn sweep_in_pool<F: Fn() + Sync>(system: &System, spec: &SweepSpec, on_row: &F) 
         grid.arrive_dir.par_chunks_mut(row_len),
         grid.transfer_angle_deg.par_chunks_mut(row_len),
         grid.status.par_chunks_mut(row_len),
+        grid.flags.par_chunks_mut(row_len),
     )
         .into_par_iter()
         .enumerate()
-        .for_each(|(i, (vd, va, dd, ad, ang, st))| {
+        .for_each(|(i, (vd, va, dd, ad, ang, st, fl))| {
             let mut row = RowOut {
                 vd,
                 va,
@@ -190,6 +192,7 @@ fn sweep_in_pool<F: Fn() + Sync>(system: &System, spec: &SweepSpec, on_row: &F) 
                 ad,
                 ang,
                 st,
+                fl,
             };
             ctx.fill_row(i, &mut row);
             on_row();
@@ -239,6 +242,8 @@ struct RowContext<'a> {
     spec: &'a SweepSpec,
     system: &'a System,
     mu: f64,
+    /// Central body radius, km: the periapsis check runs only with one.
+    radius_km: Option<f64>,
     n_layers: usize,
     dep_states: &'a [State],
     arrivals: &'a Arrivals,
@@ -251,6 +256,7 @@ struct RowOut<'a> {
     ad: &'a mut [[f32; 3]],
     ang: &'a mut [f32],
     st: &'a mut [u8],
+    fl: &'a mut [u8],
 }
 
 impl RowOut<'_> {
@@ -262,7 +268,9 @@ impl RowOut<'_> {
         vinf_depart: &Vector3<f64>,
         vinf_arrive: &Vector3<f64>,
         transfer_angle_rad: f64,
+        flags: ArcFlags,
     ) {
+        self.fl[k] = flags.bits();
         let (vd, dd) = ends.depart_frame.length_and_unit(vinf_depart);
         let (va, ad) = ends.arrive_frame.length_and_unit(vinf_arrive);
         self.vd[k] = vd;
@@ -284,6 +292,7 @@ impl RowOut<'_> {
         self.ad[k] = [f32::NAN; 3];
         self.ang[k] = f32::NAN;
         self.st[k] = status as u8;
+        self.fl[k] = 0;
     }
 }
 
@@ -301,6 +310,19 @@ impl RowContext<'_> {
         let spec = self.spec;
         let s1 = &self.dep_states[i];
         let normal: Vector3<f64> = s1.r_km.cross(&s1.v_km_s);
+        let r1_km = s1.r_km.norm();
+        let flags = |sol: &LambertSolution| {
+            ArcFlags::of_arc(
+                &s1.r_km,
+                r1_km,
+                &sol.v1,
+                &sol.v2,
+                sol.transfer_angle_rad,
+                sol.revs,
+                self.mu,
+                self.radius_km,
+            )
+        };
         let dep_days = spec.depart.value(i);
         for j in 0..spec.second.count {
             let (arr_days, tof_days) = match spec.second_kind {
@@ -343,6 +365,7 @@ impl RowContext<'_> {
                     &(sol.v1 - s1.v_km_s),
                     &(sol.v2 - s2.v_km_s),
                     sol.transfer_angle_rad,
+                    flags(&sol),
                 ),
                 Err(e) => row.fail(base, status_of(&e)),
             }
@@ -379,6 +402,7 @@ impl RowContext<'_> {
                                 &(sol.v1 - s1.v_km_s),
                                 &(sol.v2 - s2.v_km_s),
                                 sol.transfer_angle_rad,
+                                flags(sol),
                             );
                         }
                     }

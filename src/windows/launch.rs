@@ -74,7 +74,7 @@ fn tof_range(opt: &Optimum, bounds: &Bounds, depart_days: f64) -> (f64, f64) {
 
 fn same_kind(leg: &Leg<'_>, opt: &Optimum, depart_days: f64, arrive_days: f64) -> Option<Figures> {
     leg.figures(opt.layer.revs, opt.layer.branch, depart_days, arrive_days)
-        .filter(|f| f.kind == opt.kind)
+        .filter(|f| f.kind == opt.kind && leg.admits(f))
 }
 
 /// The launch period around `opt` under the ceiling `max_c3_km2_s2`: the

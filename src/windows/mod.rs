@@ -22,9 +22,7 @@ mod simplex;
 pub use simplex::{golden, nelder_mead, Minimum2};
 
 use crate::opportunity::next_opportunity;
-use crate::sweep::{
-    self, Axis, CellStatus, Grid, Layer, Objective, RunOptions, SecondAxis, SweepSpec,
-};
+use crate::sweep::{self, Axis, Grid, Layer, Objective, RunOptions, SecondAxis, SweepSpec};
 use crate::time::Epoch;
 use crate::transfer::{Figures, Leg, TransferType};
 
@@ -103,9 +101,10 @@ pub struct Candidate {
     pub border: bool,
 }
 
-/// Local minima of `objective` on `grid`: ok cells no higher than any ok
-/// neighbour (of the 8) of the same layer and Type. Sorted by layer, Type,
-/// then value.
+/// Local minima of `objective` on `grid`: usable cells ([`Grid::usable`]:
+/// ok, and not flagged `periapsis-inside` or `relativistic` unless the leg
+/// allows flagged arcs) no higher than any usable neighbour (of the 8) of
+/// the same layer and Type. Sorted by layer, Type, then value.
 pub fn grid_candidates(grid: &Grid, leg: &Leg<'_>, objective: Objective) -> Vec<Candidate> {
     let (ni, nj) = (grid.depart.count, grid.second.count);
     let mut out = Vec::new();
@@ -120,7 +119,7 @@ pub fn grid_candidates(grid: &Grid, leg: &Leg<'_>, objective: Objective) -> Vec<
         for i in 0..ni {
             for j in 0..nj {
                 let idx = grid.index(i, j, l);
-                if grid.status[idx] != CellStatus::Ok as u8 {
+                if !grid.usable(idx, leg.allow_flagged) {
                     continue;
                 }
                 let kind = grid.kind_at(idx);
@@ -137,7 +136,7 @@ pub fn grid_candidates(grid: &Grid, leg: &Leg<'_>, objective: Objective) -> Vec<
                             continue;
                         }
                         let n = grid.index(ii as usize, jj as usize, l);
-                        if grid.status[n] != CellStatus::Ok as u8 {
+                        if !grid.usable(n, leg.allow_flagged) {
                             continue;
                         }
                         if grid.kind_at(n) != kind {
@@ -180,7 +179,7 @@ pub fn grid_candidates(grid: &Grid, leg: &Leg<'_>, objective: Objective) -> Vec<
 /// # Method
 /// Nelder-Mead ([`nelder_mead`]) in (departure, arrival) with a first
 /// simplex of one grid step; infeasible points (outside `bounds`, other
-/// Type, no arc) count as +infinity.
+/// Type, no arc, an arc the leg does not admit) count as +infinity.
 pub fn refine(
     leg: &Leg<'_>,
     grid: &Grid,
@@ -195,7 +194,7 @@ pub fn refine(
             return f64::INFINITY;
         }
         match leg.figures(layer.revs, layer.branch, x[0], x[1]) {
-            Some(f) if f.kind == c.kind => {
+            Some(f) if f.kind == c.kind && leg.admits(&f) => {
                 objective.value(&leg.ends, f.vinf_depart_km_s, f.vinf_arrive_km_s)
             }
             _ => f64::INFINITY,
@@ -324,7 +323,7 @@ pub struct ScanOptions {
 /// One opportunity of a scan and its optima.
 #[derive(Debug, Clone, PartialEq)]
 pub struct OpportunityWindow {
-    /// Label: the year of the best optimum's departure (TDB).
+    /// Label: the TDB date `YYYY-MM-DD` of the best optimum's departure.
     pub label: String,
     /// Hohmann phasing date at the window's centre, days past J2000 TDB.
     pub centre_days: f64,
@@ -462,12 +461,8 @@ pub fn scan(
             .or_else(|| best_of(&|_| true))
             .map_or(centres[k], |o| o.depart_days);
         windows.push(OpportunityWindow {
-            // Opportunities more than once a year are told apart by date.
-            label: if synodic >= 365.25 {
-                year_of(label_day)
-            } else {
-                file_date_of(label_day)
-            },
+            // Always text of one form, whatever the recurrence.
+            label: file_date_of(label_day),
             centre_days: centres[k],
             depart: (d_lo, d_hi),
             tof,
@@ -548,16 +543,8 @@ fn file_date_of(days: f64) -> String {
     Epoch::from_days_since_j2000_tdb(days).date_tdb()
 }
 
-/// The TDB calendar year of a date, as text.
-fn year_of(days: f64) -> String {
-    Epoch::from_days_since_j2000_tdb(days)
-        .date_tdb()
-        .chars()
-        .take(4)
-        .collect()
-}
-
-/// Two opportunities labelled with the same year become `2031a`, `2031b`.
+/// Two opportunities labelled with the same date become `2031-04-02a`,
+/// `2031-04-02b` (only when opportunities recur within days).
 fn disambiguate_labels(windows: &mut [OpportunityWindow]) {
     let labels: Vec<String> = windows.iter().map(|w| w.label.clone()).collect();
     for (k, w) in windows.iter_mut().enumerate() {

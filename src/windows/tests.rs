@@ -38,6 +38,7 @@ fn refined_minimum_is_hohmann_and_recurs_synodically() {
         from: 0,
         to: 1,
         ends: Endpoints::bare(),
+        allow_flagged: false,
     };
     let mu = system.central.mu_km3_s2;
     let (r1, r2) = (AU_KM, 1.524 * AU_KM);
@@ -96,6 +97,7 @@ fn refined_optimum_matches_fine_brute_force() {
         from,
         to,
         ends: Endpoints::bare(),
+        allow_flagged: false,
     };
     let start = Epoch::parse("2031-01-01")
         .expect("date")
@@ -156,6 +158,7 @@ fn earth_mars_minimum_c3_2026_to_2035_in_handbook_band() {
         from: earth,
         to: mars,
         ends: Endpoints::bare(),
+        allow_flagged: false,
     };
     let s0 = Epoch::parse("2026-01-01")
         .expect("date")
@@ -197,6 +200,7 @@ fn launch_period_ends_sit_on_the_ceiling() {
         from,
         to,
         ends: Endpoints::bare(),
+        allow_flagged: false,
     };
     let start = Epoch::parse("2031-01-01")
         .expect("date")

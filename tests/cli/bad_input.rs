@@ -152,7 +152,7 @@ fn system_missing_key() {
     system_rejected(
         "sys-missing-key",
         &text,
-        &[&line, "missing field `e`", "[[body]]"],
+        &[&line, "missing key `e`", "[[body]]"],
     );
 }
 
@@ -167,7 +167,11 @@ fn system_unknown_key() {
 fn system_wrong_type() {
     let text = edit(DEMO, "e = 0.005", "e = \"small\"");
     let line = format!("sys.toml:{}:", line_of(&text, "\"small\""));
-    system_rejected("sys-wrong-type", &text, &[&line, "key `e`", "expected f64"]);
+    system_rejected(
+        "sys-wrong-type",
+        &text,
+        &[&line, "key `e`", "expected a number"],
+    );
 }
 
 #[test]
@@ -196,8 +200,8 @@ fn system_semi_major_axis_without_a_finite_orbit() {
     }
     let text = edit(
         DEMO,
-        "peri_deg = 40.0",
-        "peri_deg = 40.0\nrates = { a_au = 1e308 }",
+        "lon_peri_deg = 40.0",
+        "lon_peri_deg = 40.0\nrates = { a_au = 1e308 }",
     );
     let line = format!("sys.toml:{}:", line_of(&text, "rates ="));
     system_rejected(
@@ -240,8 +244,8 @@ fn system_nan_and_infinity() {
         ),
         (
             "sys-inf-rate",
-            "peri_deg = 40.0",
-            "peri_deg = 40.0\nrates = { node_deg = inf }",
+            "lon_peri_deg = 40.0",
+            "lon_peri_deg = 40.0\nrates = { node_deg = inf }",
             "key `node_deg`",
         ),
     ];
@@ -325,7 +329,7 @@ fn study_not_toml() {
 fn study_missing_key() {
     let text = edit(&demo_study(), "from = \"Teodra\"\n", "");
     let line = format!("study.toml:{}:", line_of(&text, "[[pair]]"));
-    study_rejected("study-missing-key", &text, &[&line, "missing field `from`"]);
+    study_rejected("study-missing-key", &text, &[&line, "missing key `from`"]);
     let text = edit(&demo_study(), "system = \"demo\"\n", "");
     study_rejected("study-missing-system", &text, &["study.toml:", "`system`"]);
 }
@@ -344,7 +348,7 @@ fn study_wrong_type() {
     study_rejected(
         "study-wrong-type",
         &text,
-        &[&line, "key `sweep.step_days`", "invalid type"],
+        &[&line, "key `sweep.step_days`", "expected a list"],
     );
     let text = edit(
         &demo_study(),
@@ -355,7 +359,7 @@ fn study_wrong_type() {
     study_rejected(
         "study-negative-revs",
         &text,
-        &[&line, "key `sweep.revs`", "-1"],
+        &[&line, "key `sweep.revs`", "-1", "whole number >= 0"],
     );
 }
 

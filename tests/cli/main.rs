@@ -4,9 +4,11 @@
 //! covers one command. `util` builds the temp folders and commands.
 
 mod bad_input;
+mod bad_trust;
 mod commands;
 mod examples;
 mod fuzz;
 mod study;
 mod sweep;
+mod trust;
 mod util;

@@ -2,7 +2,7 @@
 
 use crate::util::Dir;
 
-const HEADER: &str = "depart_jd_tdb,arrive_jd_tdb,depart_date,arrive_date,tof_days,revs,branch,type,transfer_angle_deg,c3_km2_s2,vinf_depart_km_s,dla_deg,rla_deg,vinf_arrive_km_s,arrive_dec_deg,arrive_ra_deg,dv_depart_km_s,dv_arrive_km_s,dv_total_km_s,status";
+const HEADER: &str = "depart_jd_tdb,arrive_jd_tdb,depart_date,arrive_date,tof_days,revs,branch,type,transfer_angle_deg,c3_km2_s2,vinf_depart_km_s,dla_deg,rla_deg,vinf_arrive_km_s,arrive_dec_deg,arrive_ra_deg,dv_depart_km_s,dv_arrive_km_s,dv_total_km_s,status,flags";
 
 #[test]
 fn demo_study_writes_grid_and_summary() {
@@ -17,7 +17,7 @@ fn demo_study_writes_grid_and_summary() {
     let mut lines = grid.lines();
     assert_eq!(lines.next(), Some(HEADER));
     let rows: Vec<&str> = lines.collect();
-    assert!(rows.iter().filter(|l| l.ends_with(",ok")).count() > 1000);
+    assert!(rows.iter().filter(|l| l.contains(",ok,")).count() > 1000);
     let s: serde_json::Value = serde_json::from_str(
         &std::fs::read_to_string(d.join("synodic-out/summary.json")).expect("summary"),
     )

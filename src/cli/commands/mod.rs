@@ -14,7 +14,7 @@ mod windows;
 /// Run the chosen subcommand.
 pub fn run(args: Args) -> CliResult<Outcome> {
     match args.command {
-        Command::Bodies { system, json } => bodies::run(system.as_deref(), json),
+        Command::Bodies { system, at, json } => bodies::run(system.as_deref(), at.as_deref(), json),
         Command::Lambert(a) => lambert::run(&a),
         Command::Transfer(a) => transfer::run(&a),
         Command::Sweep(a) => sweep::run(&a),

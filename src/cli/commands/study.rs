@@ -12,14 +12,14 @@ use std::time::Instant;
 
 use serde::Serialize;
 use synodic::ephemeris::System;
-use synodic::export::{ensure_dir, file_date, write_atomic};
+use synodic::export::{ensure_dir, write_atomic};
 use synodic::opportunity::{hohmann_tof_days, next_opportunity};
-use synodic::study::{locate, relative_path, Study, SweepSection};
+use synodic::study::{locate, relative_path, Orbits, Study, SweepSection};
 use synodic::sweep::{Axis, SecondAxis, SweepError, SweepSpec};
 use synodic::time::parse_span;
 
 use super::{print, sweep, windows};
-use crate::cli::input::{resolve_endpoints, sha256_hex};
+use crate::cli::input::{compact_date, resolve_endpoints, sha256_hex};
 use crate::cli::{CliResult, Outcome};
 
 /// Where a study came from, for messages that point at the right place.
@@ -106,7 +106,7 @@ fn midnight(days: f64) -> f64 {
 }
 
 fn span_text(a: f64, b: f64) -> String {
-    format!("{}..{}", file_date(a), file_date(b))
+    format!("{}..{}", compact_date(a), compact_date(b))
 }
 
 /// Fill a sweep section's defaults for one pair and normalise its dates.
@@ -250,7 +250,7 @@ pub fn sweep_spec(
         )
         .into());
     }
-    let ends = endpoints(study, system, from, to)?;
+    let ends = endpoints(study, system, from, to, origin)?;
     Ok((
         SweepSpec {
             from,
@@ -265,20 +265,70 @@ pub fn sweep_spec(
     ))
 }
 
-/// Parking and capture orbits of a study for one pair.
+/// Parking and capture orbits of a study for one pair; a message about a
+/// bad value names the study's key (or the option).
 pub fn endpoints(
     study: &Study,
     system: &System,
     from: usize,
     to: usize,
+    origin: &Origin,
 ) -> CliResult<synodic::transfer::Endpoints> {
+    let o = &study.orbits;
+    let at = |key: &str, flag: &str| origin.at("orbits", 0, key, flag);
+    check_orbits(o, origin)?;
     resolve_endpoints(
         &system.bodies[from],
         &system.bodies[to],
-        study.orbits.park_alt_km,
-        study.orbits.capture_alt_km,
-        study.orbits.capture_ecc.unwrap_or(0.0),
+        o.park_alt_km,
+        o.capture_alt_km,
+        o.capture_ecc.unwrap_or(0.0),
     )
+    .map_err(|e| {
+        let (key, flag) = if o.capture_alt_km.is_some() && e.to_string().contains("capture") {
+            ("capture_alt_km", "--capture-alt-km")
+        } else {
+            ("park_alt_km", "--park-alt-km")
+        };
+        format!("{}: {e} (in {})", at(key, flag), system.source).into()
+    })
+}
+
+/// Altitudes and the capture eccentricity in range, each message naming
+/// its study key (or option).
+pub fn check_orbits(o: &Orbits, origin: &Origin) -> CliResult<()> {
+    let at = |key: &str, flag: &str| origin.at("orbits", 0, key, flag);
+    for (key, flag, value) in [
+        ("park_alt_km", "--park-alt-km", o.park_alt_km),
+        ("capture_alt_km", "--capture-alt-km", o.capture_alt_km),
+    ] {
+        if let Some(v) = value {
+            if !(v.is_finite() && v >= 0.0) {
+                return Err(
+                    format!("{}: must be an altitude >= 0 km, got {v}", at(key, flag)).into(),
+                );
+            }
+        }
+    }
+    if let Some(e) = o.capture_ecc {
+        if !(e.is_finite() && (0.0..1.0).contains(&e)) {
+            return Err(format!(
+                "{}: the capture orbit's eccentricity must be in [0, 1) (0 circular, below 1 \
+                 elliptic), got {e}",
+                at("capture_ecc", "--capture-ecc")
+            )
+            .into());
+        }
+        if o.capture_alt_km.is_none() {
+            return Err(format!(
+                "{}: a capture eccentricity needs the capture orbit's periapsis altitude, \
+                 orbits.capture_alt_km (--capture-alt-km)",
+                at("capture_ecc", "--capture-ecc")
+            )
+            .into());
+        }
+    }
+    Ok(())
 }
 
 /// What every run records beside its outputs but keeps out of them.

@@ -11,20 +11,22 @@ use synodic::chart::{
     DEFAULT_HEIGHT_PX, DEFAULT_WIDTH_PX,
 };
 use synodic::ephemeris::System;
-use synodic::export::{ensure_dir, file_date, grid_csv, windows_csv, write_atomic, WindowRecord};
+use synodic::export::{
+    ensure_dir, file_date, grid_csv, stamp, windows_csv, write_atomic, WindowRecord,
+};
 use synodic::study::{
     relative_path, ChartSection, Limits, Orbits, Outputs, Pair, Study, SweepSection,
 };
 use synodic::sweep::{
-    grid_minima, sweep, Axis, CellStatus, Grid, Layer, Objective, RunOptions, SecondAxis, SweepSpec,
+    grid_minima_with, sweep, Axis, CellStatus, Grid, Layer, Objective, RunOptions, SecondAxis,
+    SweepSpec,
 };
-use synodic::time::J2000_JD;
 use synodic::transfer::Leg;
 use synodic::windows::{optima_of_grid, Borders, Bounds, Optimum};
 
 use super::study::{execute, folder_of, save_study, Origin, PartResult, Provenance, RunFlags};
 use crate::cli::args::SweepArgs;
-use crate::cli::input::{day_of, parse_number_span};
+use crate::cli::input::{day_of, parse_number_span, tof_unit};
 use crate::cli::{CliResult, Outcome};
 
 /// The demo study's default pair: two bodies of the built-in system whose
@@ -39,7 +41,11 @@ processes and applicable standards.";
 struct AxisOut {
     kind: &'static str,
     start: String,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    start_jd_tdb: Option<f64>,
     end: String,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    end_jd_tdb: Option<f64>,
     step_days: f64,
     count: usize,
 }
@@ -60,6 +66,9 @@ struct MinimumOut {
     c3_km2_s2: f64,
     vinf_arrive_km_s: f64,
     dv_total_km_s: f64,
+    /// `edge` (on a limit of the grid) and the cell's sanity flags,
+    /// `;`-separated.
+    flags: String,
 }
 
 #[derive(Debug, Serialize)]
@@ -206,6 +215,7 @@ fn study_from_args(args: &SweepArgs) -> CliResult<Study> {
             show: args.show.clone(),
         },
         outputs,
+        allow_flagged: args.allow_flagged,
     })
 }
 
@@ -259,13 +269,14 @@ pub fn run_grid(
         from: spec.from,
         to: spec.to,
         ends: spec.ends,
+        allow_flagged: study.allow_flagged,
     };
     let optima = if study.outputs.windows || study.outputs.chart {
         refined_optima(&leg, spec, &grid)
     } else {
         Vec::new()
     };
-    let summary = summarise(system, spec, provenance, &grid);
+    let summary = summarise(system, spec, provenance, &grid, study.allow_flagged);
     let mut written = Vec::new();
     if study.outputs.grid {
         let path = out_dir.join("grid.csv");
@@ -277,7 +288,8 @@ pub fn run_grid(
         let records: Vec<WindowRecord> = optima
             .iter()
             .map(|o| {
-                let label: String = file_date(o.depart_days).chars().take(4).collect();
+                let label =
+                    synodic::time::Epoch::from_days_since_j2000_tdb(o.depart_days).date_tdb();
                 WindowRecord::new(&label, o, Objective::C3, false, None, None)
             })
             .collect();
@@ -296,7 +308,8 @@ pub fn run_grid(
         written,
         screen: screen(&summary, elapsed) + &refined_screen(&optima),
         json: json.trim_end().to_string(),
-        feasible: summary.grid.ok > 0,
+        // Solved cells that may be optima (not all flagged away).
+        feasible: !summary.minima.is_empty(),
     })
 }
 
@@ -307,20 +320,28 @@ fn refined_screen(optima: &[Optimum]) -> String {
     }
     let mut o =
         String::from("Refined optima (minimum C3 on the Lambert solution itself, windows.csv)\n");
+    let (unit, per_day) = tof_unit(optima.iter().map(|o| o.arrive_days - o.depart_days));
     let _ = writeln!(
         o,
         "  {:<4} {:>4} {:<6} {:<16}  {:<16}  {:>8}  {:>9}  {:>7}  {:>7}  {:>9}  flags",
-        "type", "revs", "branch", "depart", "arrive", "tof (d)", "C3", "DLA", "RLA", "vinf in"
+        "type",
+        "revs",
+        "branch",
+        "depart",
+        "arrive",
+        format!("tof ({unit})"),
+        "C3",
+        "DLA",
+        "RLA",
+        "vinf in"
     );
     for opt in optima {
         let f = &opt.figures;
-        let when = |d: f64| {
-            let t = synodic::export::table_date(d).replacen('T', " ", 1);
-            t.get(..16).unwrap_or(&t).to_string()
-        };
+        let when = |d: f64| minute(&file_date(d));
         let flags: Vec<&str> = [(opt.ridge, "ridge"), (opt.edge, "edge")]
             .into_iter()
             .filter_map(|(on, name)| on.then_some(name))
+            .chain(f.flags.names())
             .collect();
         let _ = writeln!(
             o,
@@ -330,7 +351,7 @@ fn refined_screen(optima: &[Optimum]) -> String {
             opt.layer.branch.to_string(),
             when(opt.depart_days),
             when(opt.arrive_days),
-            opt.arrive_days - opt.depart_days,
+            (opt.arrive_days - opt.depart_days) * per_day,
             f.c3_km2_s2,
             f.dla_deg,
             f.rla_deg,
@@ -485,11 +506,12 @@ fn axis_out(axis: &Axis, kind: SecondAxis, is_depart: bool) -> AxisOut {
     let dated = is_depart || kind == SecondAxis::Arrival;
     let show = |d: f64| {
         if dated {
-            file_date(d)
+            stamp(d).date
         } else {
             format!("{d}")
         }
     };
+    let jd = |d: f64| dated.then(|| stamp(d).jd_tdb);
     AxisOut {
         kind: if is_depart {
             "departure date (TDB)"
@@ -499,19 +521,27 @@ fn axis_out(axis: &Axis, kind: SecondAxis, is_depart: bool) -> AxisOut {
             "time of flight (days)"
         },
         start: show(axis.start_days),
+        start_jd_tdb: jd(axis.start_days),
         end: show(axis.end_days()),
+        end_jd_tdb: jd(axis.end_days()),
         step_days: axis.step_days,
         count: axis.count,
     }
 }
 
-fn summarise(system: &System, spec: &SweepSpec, provenance: &Provenance, grid: &Grid) -> Summary {
+fn summarise(
+    system: &System,
+    spec: &SweepSpec,
+    provenance: &Provenance,
+    grid: &Grid,
+    allow_flagged: bool,
+) -> Summary {
     let ends = &spec.ends;
     let counts = grid.status_counts();
     let count = |s: CellStatus| counts.iter().find(|c| c.0 == s).map_or(0, |c| c.1);
     let mut minima = Vec::new();
     for objective in [Objective::C3, Objective::VinfArrive, Objective::DvTotal] {
-        for m in grid_minima(grid, ends, objective) {
+        for m in grid_minima_with(grid, ends, objective, allow_flagged) {
             let idx = grid.index(m.i, m.j, m.layer);
             let (d, a) = grid.dates_days(m.i, m.j);
             let vd = grid.vinf_depart_km_s[idx];
@@ -523,14 +553,21 @@ fn summarise(system: &System, spec: &SweepSpec, provenance: &Provenance, grid: &
                 revs: layer.revs,
                 branch: layer.branch.to_string(),
                 value: m.value,
-                depart_date: file_date(d),
-                arrive_date: file_date(a),
-                depart_jd_tdb: d + J2000_JD,
-                arrive_jd_tdb: a + J2000_JD,
+                depart_date: stamp(d).date,
+                arrive_date: stamp(a).date,
+                depart_jd_tdb: stamp(d).jd_tdb,
+                arrive_jd_tdb: stamp(a).jd_tdb,
                 tof_days: a - d,
                 c3_km2_s2: vd * vd,
                 vinf_arrive_km_s: va,
                 dv_total_km_s: ends.dv_total_km_s(vd, va),
+                flags: m
+                    .edge
+                    .then_some("edge")
+                    .into_iter()
+                    .chain(m.flags.names())
+                    .collect::<Vec<_>>()
+                    .join(";"),
             });
         }
     }
@@ -591,10 +628,11 @@ fn screen(s: &Summary, elapsed_s: f64) -> String {
         g.no_solution,
         g.not_converged
     );
+    let (unit, per_day) = tof_unit(s.minima.iter().map(|m| m.tof_days));
     let _ = writeln!(o, "\nGrid minima (refine with a finer step)");
     let _ = writeln!(
         o,
-        "  {:<12} {:<4} {:>4} {:<6} {:>10}  {:<10}  {:<10}  {:>8}  {:>9}  {:>9}  {:>9}",
+        "  {:<12} {:<4} {:>4} {:<6} {:>10}  {:<16}  {:<16}  {:>8}  {:>9}  {:>9}  {:>9}  flags",
         "objective",
         "type",
         "revs",
@@ -602,7 +640,7 @@ fn screen(s: &Summary, elapsed_s: f64) -> String {
         "value",
         "depart",
         "arrive",
-        "tof (d)",
+        format!("tof ({unit})"),
         "C3",
         "vinf in",
         "dv total"
@@ -610,20 +648,27 @@ fn screen(s: &Summary, elapsed_s: f64) -> String {
     for m in &s.minima {
         let _ = writeln!(
             o,
-            "  {:<12} {:<4} {:>4} {:<6} {:>10.4}  {:<10}  {:<10}  {:>8.1}  {:>9.4}  {:>9.4}  {:>9.4}",
+            "  {:<12} {:<4} {:>4} {:<6} {:>10.4}  {:<16}  {:<16}  {:>8.1}  {:>9.4}  {:>9.4}  {:>9.4}  {}",
             m.objective,
             m.kind,
             m.revs,
             m.branch,
             m.value,
-            m.depart_date,
-            m.arrive_date,
-            m.tof_days,
+            minute(&m.depart_date),
+            minute(&m.arrive_date),
+            m.tof_days * per_day,
             m.c3_km2_s2,
             m.vinf_arrive_km_s,
-            m.dv_total_km_s
+            m.dv_total_km_s,
+            m.flags
         );
     }
     let _ = writeln!(o, "  (C3 km^2/s^2; speeds and delta-v km/s; dates TDB)\n");
     o
+}
+
+/// `YYYY-MM-DD hh:mm` of a date column, for screens.
+fn minute(date: &str) -> String {
+    let d = date.replacen('T', " ", 1);
+    d.get(..16).unwrap_or(&d).to_string()
 }

@@ -2,14 +2,20 @@
 
 use std::fmt::Write as _;
 
+use nalgebra::Vector3;
 use serde::Serialize;
+use synodic::ephemeris::System;
+use synodic::export::stamp;
+use synodic::lambert::LambertSolution;
 use synodic::orbit::{conic_from_state, State};
-use synodic::transfer::{arcs_between, Figures};
+use synodic::transfer::{arcs_between, periapsis_km, ArcFlags, Figures, RELATIVISTIC_SPEED_KM_S};
 
 use super::print;
+use super::study::{check_orbits, Origin};
 use crate::cli::args::TransferArgs;
 use crate::cli::input::{body_pair, load_system, parse_epoch, resolve_endpoints};
 use crate::cli::{CliResult, Outcome};
+use synodic::study::Orbits;
 
 #[derive(Debug, Serialize)]
 struct ArcOut {
@@ -29,6 +35,8 @@ struct ArcOut {
     dv_depart_km_s: f64,
     dv_arrive_km_s: f64,
     dv_total_km_s: f64,
+    /// Sanity flags, `;`-separated (README: Flags).
+    flags: String,
     orbit: Option<OrbitOut>,
 }
 
@@ -46,9 +54,9 @@ struct Report {
     system: String,
     from: String,
     to: String,
-    depart: String,
-    arrive: String,
+    depart_date: String,
     depart_jd_tdb: f64,
+    arrive_date: String,
     arrive_jd_tdb: f64,
     arcs: Vec<ArcOut>,
 }
@@ -58,18 +66,35 @@ pub fn run(args: &TransferArgs) -> CliResult<Outcome> {
     let (from, to) = body_pair(&system, &args.from, &args.to)?;
     let depart = parse_epoch(&args.depart, "--depart")?;
     let arrive = parse_epoch(&args.arrive, "--arrive")?;
+    check_orbits(
+        &Orbits {
+            park_alt_km: args.orbits.park_alt_km,
+            capture_alt_km: args.orbits.capture_alt_km,
+            capture_ecc: args.orbits.capture_alt_km.map(|_| args.orbits.capture_ecc),
+        },
+        &Origin::Cli,
+    )?;
     let ends = resolve_endpoints(
         &system.bodies[from],
         &system.bodies[to],
         args.orbits.park_alt_km,
         args.orbits.capture_alt_km,
         args.orbits.capture_ecc,
-    )?;
+    )
+    .map_err(|e| {
+        let flag = if e.to_string().contains("capture") {
+            "--capture-alt-km"
+        } else {
+            "--park-alt-km"
+        };
+        format!("{flag}: {e} (in {})", system.source)
+    })?;
     let arcs = arcs_between(&system, from, to, &depart, &arrive, &ends, args.revs)?;
     let r1 = system.state(from, &depart).r_km;
     let mu = system.central.mu_km3_s2;
     let mut out = Vec::with_capacity(arcs.len());
     for (fig, sol) in &arcs {
+        warn(fig, sol, &r1, &system);
         // A degenerate arc (e.g. rectilinear) has no classical elements;
         // its other figures still stand.
         let orbit = conic_from_state(
@@ -93,10 +118,10 @@ pub fn run(args: &TransferArgs) -> CliResult<Outcome> {
         system: system.name.clone(),
         from: system.bodies[from].name.clone(),
         to: system.bodies[to].name.clone(),
-        depart: depart.to_iso_tdb(),
-        arrive: arrive.to_iso_tdb(),
-        depart_jd_tdb: depart.jd_tdb(),
-        arrive_jd_tdb: arrive.jd_tdb(),
+        depart_date: stamp(depart.days_since_j2000_tdb()).date,
+        depart_jd_tdb: stamp(depart.days_since_j2000_tdb()).jd_tdb,
+        arrive_date: stamp(arrive.days_since_j2000_tdb()).date,
+        arrive_jd_tdb: stamp(arrive.days_since_j2000_tdb()).jd_tdb,
         arcs: out,
     };
     if args.json {
@@ -126,7 +151,33 @@ fn arc_out(f: &Figures, orbit: Option<OrbitOut>) -> ArcOut {
         dv_depart_km_s: f.dv_depart_km_s,
         dv_arrive_km_s: f.dv_arrive_km_s,
         dv_total_km_s: f.dv_total_km_s,
+        flags: f.flags.to_text(),
         orbit,
+    }
+}
+
+/// A warning on stderr for an arc whose numbers should not be used as
+/// they stand (the figures are still printed).
+fn warn(f: &Figures, sol: &LambertSolution, r1: &Vector3<f64>, system: &System) {
+    let arc = format!("Type {} arc ({} rev, {})", f.kind, f.revs, f.branch);
+    if f.flags.contains(ArcFlags::PERIAPSIS_INSIDE) {
+        let rp = periapsis_km(r1, r1.norm(), &sol.v1, system.central.mu_km3_s2);
+        eprintln!(
+            "synodic: warning: {arc}: its periapsis, {rp:.0} km from the centre of {}, lies \
+             inside its radius ({:.0} km): not a flyable transfer",
+            system.central.name,
+            system.central.radius_km.unwrap_or(f64::NAN)
+        );
+    }
+    if f.flags.contains(ArcFlags::RELATIVISTIC) {
+        eprintln!(
+            "synodic: warning: {arc}: the spacecraft would move at {:.0} km/s, over 1 % of the \
+             speed of light ({RELATIVISTIC_SPEED_KM_S:.0} km/s), where two-body (Newtonian) \
+             motion no longer holds: the time of flight ({}) is far too short for the distance, \
+             and the figures have no physical meaning",
+            sol.v1.norm().max(sol.v2.norm()),
+            duration(f.tof_days)
+        );
     }
 }
 
@@ -145,15 +196,27 @@ fn orbit_line(o: Option<&OrbitOut>, first: bool) -> String {
 fn table(r: &Report) -> String {
     let mut s = String::new();
     let _ = writeln!(s, "{} -> {}  ({})", r.from, r.to, r.system);
-    let _ = writeln!(s, "depart   {}  (JD {:.6} TDB)", r.depart, r.depart_jd_tdb);
-    let _ = writeln!(s, "arrive   {}  (JD {:.6} TDB)", r.arrive, r.arrive_jd_tdb);
+    let _ = writeln!(
+        s,
+        "depart   {} TDB  (JD {:.6} TDB)",
+        r.depart_date, r.depart_jd_tdb
+    );
+    let _ = writeln!(
+        s,
+        "arrive   {} TDB  (JD {:.6} TDB)",
+        r.arrive_date, r.arrive_jd_tdb
+    );
     for a in &r.arcs {
         let _ = writeln!(
             s,
-            "\nType {}  revs {}  branch {}  transfer angle {:.3} deg  time of flight {:.3} d",
-            a.kind, a.revs, a.branch, a.transfer_angle_deg, a.tof_days
+            "\nType {}  revs {}  branch {}  transfer angle {:.3} deg  time of flight {}",
+            a.kind,
+            a.revs,
+            a.branch,
+            a.transfer_angle_deg,
+            duration(a.tof_days)
         );
-        let rows: [(&str, String); 12] = [
+        let rows: [(&str, String); 13] = [
             ("C3", format!("{:.4} km^2/s^2", a.c3_km2_s2)),
             ("v-infinity out", format!("{:.4} km/s", a.vinf_depart_km_s)),
             ("DLA", format!("{:.3} deg", a.dla_deg)),
@@ -164,6 +227,7 @@ fn table(r: &Report) -> String {
             ("delta-v depart", format!("{:.4} km/s", a.dv_depart_km_s)),
             ("delta-v arrive", format!("{:.4} km/s", a.dv_arrive_km_s)),
             ("delta-v total", format!("{:.4} km/s", a.dv_total_km_s)),
+            ("flags", a.flags.clone()),
             ("transfer orbit", orbit_line(a.orbit.as_ref(), true)),
             ("", orbit_line(a.orbit.as_ref(), false)),
         ];
@@ -172,4 +236,16 @@ fn table(r: &Report) -> String {
         }
     }
     s
+}
+
+/// A time of flight for screens: days, or hours (and seconds) where days
+/// would print as a small fraction.
+fn duration(tof_days: f64) -> String {
+    if tof_days >= 10.0 {
+        format!("{tof_days:.3} d")
+    } else if tof_days * 24.0 >= 1.0 {
+        format!("{tof_days:.5} d ({:.3} h)", tof_days * 24.0)
+    } else {
+        format!("{tof_days:.3e} d ({:.3} s)", tof_days * 86400.0)
+    }
 }

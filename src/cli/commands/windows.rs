@@ -6,7 +6,9 @@ use std::path::{Path, PathBuf};
 use serde::Serialize;
 use synodic::chart::{overview_png, overview_svg, OverviewPoint, OverviewSpec};
 use synodic::ephemeris::System;
-use synodic::export::{file_date, launch_period_csv, windows_csv, write_atomic, WindowRecord};
+use synodic::export::{
+    ensure_dir, file_date, launch_period_csv, stamp, windows_csv, write_atomic, WindowRecord,
+};
 use synodic::study::{Limits as StudyLimits, Orbits, Outputs, Pair, Study, WindowsSection};
 use synodic::sweep::Objective;
 use synodic::time::parse_span;
@@ -18,7 +20,9 @@ use synodic::windows::{scan, Bounds, OpportunityWindow, ScanOptions};
 use super::print;
 use super::study::{endpoints, folder_of, save_study, Origin, PartResult, Provenance, RunFlags};
 use crate::cli::args::WindowsArgs;
-use crate::cli::input::{body_pair, day_of, load_system, parse_number_span};
+use crate::cli::input::{
+    body_pair, compact_date, day_of, load_system, parse_number_span, tof_unit,
+};
 use crate::cli::{CliResult, Outcome};
 
 /// Caution printed under every table.
@@ -89,6 +93,7 @@ struct JsonRow<'a> {
 #[derive(Debug, Serialize)]
 struct DailyOut {
     depart_date: String,
+    depart_jd_tdb: f64,
     c3_km2_s2: Option<f64>,
     dla_deg: Option<f64>,
     rla_deg: Option<f64>,
@@ -167,7 +172,7 @@ pub fn scan_plan(
         .into());
     }
     // Validate the orbits now, before any work.
-    endpoints(study, system, from, to)?;
+    endpoints(study, system, from, to, origin)?;
     Ok(ScanPlan {
         span: (s0.days_since_j2000_tdb(), s1.days_since_j2000_tdb()),
         options: ScanOptions {
@@ -195,7 +200,8 @@ fn scan_rows(
         system,
         from,
         to,
-        ends: endpoints(study, system, from, to)?,
+        ends: endpoints(study, system, from, to, &Origin::Cli)?,
+        allow_flagged: study.allow_flagged,
     };
     let mut options = plan.options;
     options.threads = threads;
@@ -216,8 +222,8 @@ fn title(system: &System, from: usize, to: usize, plan: &ScanPlan) -> String {
         system.bodies[from].name,
         system.bodies[to].name,
         system.name,
-        file_date(plan.span.0),
-        file_date(plan.span.1),
+        compact_date(plan.span.0),
+        compact_date(plan.span.1),
         plan.options.objective.name()
     )
 }
@@ -363,6 +369,7 @@ pub fn run(args: &WindowsArgs) -> CliResult<Outcome> {
         },
         chart: Default::default(),
         outputs: Outputs::default(),
+        allow_flagged: args.allow_flagged,
     };
     let system = load_system(args.system.as_deref())?;
     let (from, to) = body_pair(&system, &args.from, &args.to)?;
@@ -371,6 +378,20 @@ pub fn run(args: &WindowsArgs) -> CliResult<Outcome> {
         .as_ref()
         .ok_or("internal: no window section")?;
     let plan = scan_plan(w, &study, &system, from, to, &Origin::Cli)?;
+    // Settle where the files go before the scan, not after it.
+    if let Some(path) = &args.overview {
+        if !matches!(
+            path.extension().and_then(|e| e.to_str()),
+            Some("svg" | "png")
+        ) {
+            return Err(format!("--overview: {} must end in .svg or .png", path.display()).into());
+        }
+    }
+    for (flag, path) in [("--out", &args.out), ("--overview", &args.overview)] {
+        if let Some(path) = path {
+            ensure_dir(folder_of(path)).map_err(|e| format!("{flag}: {e}"))?;
+        }
+    }
     let rows = scan_rows(&system, from, to, &plan, &study, args.threads)?;
     // Saved only once the scan has succeeded.
     if let Some(path) = &args.save_study {
@@ -413,7 +434,8 @@ fn daily_out(p: &FixedArrivalPeriod) -> Vec<DailyOut> {
     p.daily
         .iter()
         .map(|d| DailyOut {
-            depart_date: synodic::export::table_date(d.depart_days),
+            depart_date: stamp(d.depart_days).date,
+            depart_jd_tdb: stamp(d.depart_days).jd_tdb,
             c3_km2_s2: d.figures.map(|f| f.c3_km2_s2),
             dla_deg: d.figures.map(|f| f.dla_deg),
             rla_deg: d.figures.map(|f| f.rla_deg),
@@ -451,11 +473,12 @@ pub fn table(
     max_c3: Option<f64>,
 ) -> String {
     let mut s = String::new();
+    let (unit, per_day) = tof_unit(rows.iter().map(|r| r.0.tof_days));
     let _ = writeln!(s, "{title}\n");
     let _ = writeln!(
         s,
-        "{:<7} {:<4} {:<8} {:<16} {:<16} {:>7} {:>8} {:>7} {:>7} {:>7} {:>7} {:>7} {:>7}  {:<24} flags",
-        "opport.", "type", "revs", "depart", "arrive", "tof d", "C3", "DLA", "RLA", "vinf o", "vinf i", "dec i", "dv tot",
+        "{:<11} {:<4} {:<8} {:<16} {:<16} {:>7} {:>8} {:>7} {:>7} {:>7} {:>7} {:>7} {:>7}  {:<28} flags",
+        "opportunity", "type", "revs", "depart", "arrive", format!("tof {unit}"), "C3", "DLA", "RLA", "vinf o", "vinf i", "dec i", "dv tot",
         if max_c3.is_some() { "launch period (days)" } else { "" },
     );
     for (r, fixed) in rows {
@@ -474,18 +497,23 @@ pub fn table(
                 a.get(5..10).unwrap_or(a),
                 b.get(5..10).unwrap_or(b)
             ),
+            // Launch periods are not computed for ridge rows (their
+            // transfer plane is ill-conditioned): say so, not "closed".
+            _ if max_c3.is_some() && r.flags.split(';').any(|f| f == "ridge") => {
+                "not computed at the ridge".to_string()
+            }
             _ if max_c3.is_some() => "closed".to_string(),
             _ => String::new(),
         };
         let _ = writeln!(
             s,
-            "{:<7} {:<4} {:<8} {:<16} {:<16} {:>7.1} {:>8.3} {:>7.2} {:>7.2} {:>7.3} {:>7.3} {:>7.2} {:>7.3}  {:<24} {}",
+            "{:<11} {:<4} {:<8} {:<16} {:<16} {:>7.1} {:>8.3} {:>7.2} {:>7.2} {:>7.3} {:>7.3} {:>7.2} {:>7.3}  {:<28} {}",
             r.opportunity,
             r.kind,
             revs,
             short(&r.depart_date),
             short(&r.arrive_date),
-            r.tof_days,
+            r.tof_days * per_day,
             r.c3_km2_s2,
             r.dla_deg,
             r.rla_deg,
@@ -499,11 +527,11 @@ pub fn table(
         if let Some(p) = fixed {
             let _ = writeln!(
                 s,
-                "{:<13} fixed arrival {}: {} daily departures from {}, C3 <= {:.3}",
+                "{:<17} fixed arrival {}: {} daily departures from {}, C3 <= {:.3}",
                 "",
-                short(&synodic::export::table_date(p.arrive_days)),
+                short(&file_date(p.arrive_days)),
                 p.days,
-                short(&synodic::export::table_date(p.first_days)),
+                short(&file_date(p.first_days)),
                 p.max_c3_km2_s2
             );
         }
@@ -519,7 +547,8 @@ pub fn table(
         s,
         "\nC3 km^2/s^2; v-infinity (out, in) and delta-v km/s; angles deg; dates TDB.\n\
          Type I: transfer angle < 180 deg; II: > 180 deg. Flags: ridge = next to the \
-         180-deg ridge (ill-conditioned), edge = on a search limit, over-limit = above a ceiling."
+         180-deg ridge (ill-conditioned), edge = on a search limit, over-limit = above a ceiling;\n\
+         hyperbolic = the transfer orbit escapes the central body (information only)."
     );
     let _ = writeln!(s, "\n{CAUTION}");
     s
