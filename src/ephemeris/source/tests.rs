@@ -7,7 +7,7 @@ use std::path::{Path, PathBuf};
 use nalgebra::Vector3;
 
 use super::*;
-use crate::ephemeris::{ElementRates, MeanElements, AU_KM, JULIAN_CENTURY_DAYS};
+use crate::ephemeris::System;
 use crate::lambert::{solve_zero_rev, Direction};
 
 fn fixture(name: &str) -> PathBuf {
@@ -317,45 +317,17 @@ fn hermite_utc_ecliptic_oem_agrees_with_spk() {
 /// Mars' longitude the largest).
 #[test]
 fn standish_table_1_agrees_with_de421_within_its_nominal_errors() {
-    let table: toml::Value = toml::from_str(
-        &std::fs::read_to_string(
-            Path::new(env!("CARGO_MANIFEST_DIR")).join("tests/fixtures/standish-table1.toml"),
-        )
-        .expect("fixture"),
+    // Read through the system-file reader, so the table's element set
+    // (longitudes of perihelion and mean longitudes, rates per century) is
+    // taken exactly as a user's file would be.
+    let table = System::load(
+        &Path::new(env!("CARGO_MANIFEST_DIR")).join("tests/fixtures/standish-table1.toml"),
     )
-    .expect("TOML");
-    let mu_sun = table["central"]["mu_km3_s2"].as_float().expect("GM");
-    let bodies = table["body"].as_array().expect("bodies");
+    .expect("fixture");
     // Heliocentric position (km, ecliptic J2000) from Table 1 at t.
     let standish = |name: &str, t: &Epoch| -> Vector3<f64> {
-        let body = bodies
-            .iter()
-            .find(|b| b["name"].as_str() == Some(name))
-            .expect("body in table");
-        let num = |t: &toml::Value, key: &str| t[key].as_float().expect("number");
-        let rates = &body["rates"];
-        let elements = MeanElements {
-            a_km: num(body, "a_au") * AU_KM,
-            e: num(body, "e"),
-            i_deg: num(body, "i_deg"),
-            node_deg: num(body, "node_deg"),
-            peri_deg: num(body, "peri_deg"),
-            mean_lon_deg: num(body, "mean_lon_deg"),
-        };
-        let per_century = ElementRates {
-            a_km: num(rates, "a_au") * AU_KM,
-            e: num(rates, "e"),
-            i_deg: num(rates, "i_deg"),
-            node_deg: num(rates, "node_deg"),
-            peri_deg: num(rates, "peri_deg"),
-            mean_lon_deg: num(rates, "mean_lon_deg"),
-        };
-        let centuries = t.days_since_j2000_tdb() / JULIAN_CENTURY_DAYS;
-        elements
-            .at(&per_century, centuries)
-            .state(mu_sun)
-            .expect("elements")
-            .r_km
+        let body = table.find(name).expect("body in table");
+        table.state(body, t).r_km
     };
     let dates: Vec<Epoch> = (0..730)
         .map(|i| epoch("1995-01-01").plus_days(5.0 * f64::from(i)))
