@@ -12,7 +12,7 @@ use crate::orbit::State;
 /// periapsis speed 17.210 km/s, circular speed 7.15 km/s, capture
 /// delta-v 10.06 km/s.
 ///
-/// Source: B. Weber, *Orbital Mechanics Notes* (orbital-mechanics.space),
+/// Source: B. W. Weber, *Orbital Mechanics Notes* (orbital-mechanics.space),
 /// "Planetary Arrival: Capture", Example (Neptune to Venus), with its
 /// data: GM Sun 1.32712e11, orbit radii 4.53239e9 and 1.08209e8 km,
 /// Venus GM 3.24859e5 km^3/s^2 and radius 6051.8 km. The excess speed
