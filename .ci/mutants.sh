@@ -9,13 +9,15 @@
 #
 # Prints one line per mutation (CAUGHT, SURVIVED, STALE when its text no
 # longer matches the code) and a summary; exits 1 if any survived or is
-# stale. The working tree's sources are never touched: the copy lives in
-# target/mutants-tree (rebuilt each run) and builds in target/, reusing
-# the compiled dependencies (MUTANTS_TARGET_DIR overrides).
+# stale. The working tree is never touched: the copy lives in
+# target/mutants-tree (laid anew each run) and builds in its own
+# target/mutants (MUTANTS_TARGET_DIR overrides), never in target/: cargo
+# names a workspace's artifacts independently of its path, so a shared
+# target folder would hand mutated builds back to the working tree.
 set -euo pipefail
 ROOT=$(cd "$(dirname "$0")/.." && pwd)
 LIST="$ROOT/.ci/mutants.txt"
-export CARGO_TARGET_DIR="${MUTANTS_TARGET_DIR:-$ROOT/target}"
+export CARGO_TARGET_DIR="${MUTANTS_TARGET_DIR:-$ROOT/target/mutants}"
 TIMEOUT_S="${MUTANTS_TIMEOUT_S:-1200}"
 # A fixed path, so that cargo reuses the copy's own build between runs.
 WORK="$ROOT/target/mutants-tree"
@@ -26,6 +28,8 @@ mkdir -p "$WORK"
 (cd "$ROOT" && git ls-files -z --cached --others --exclude-standard \
     | xargs -0 -I{} sh -c 'test -e "{}" && printf "%s\0" "{}"' \
     | tar --null -T - -cf -) | (cd "$WORK" && tar -xf -)
+# Fresh modification times: cargo decides what to rebuild by them.
+find "$WORK" -type f -exec touch {} +
 
 run_tests() {
     (cd "$WORK" && timeout "$TIMEOUT_S" cargo test --release --locked -q \
