@@ -2,6 +2,34 @@
 
 use crate::util::Dir;
 
+/// Standish Table 1 (real bodies; source in the file header).
+const STANDISH: &str = concat!(
+    env!("CARGO_MANIFEST_DIR"),
+    "/tests/fixtures/standish-table1.toml"
+);
+
+/// Two circular coplanar orbits at 1 and 1.524 au (invented bodies).
+const TWO_CIRCLES: &str = concat!(
+    env!("CARGO_MANIFEST_DIR"),
+    "/tests/fixtures/two-circles.toml"
+);
+
+/// `transfer FROM TO` on a fixture system with `extra` arguments.
+fn transfer(
+    d: &Dir,
+    system: &str,
+    from: &str,
+    to: &str,
+    dates: [&str; 2],
+    extra: &[&str],
+) -> String {
+    let mut args = vec![
+        "transfer", from, to, "--system", system, "--depart", dates[0], "--arrive", dates[1],
+    ];
+    args.extend_from_slice(extra);
+    d.run(&args).ok().stdout
+}
+
 #[test]
 fn bodies_lists_the_demo_system() {
     let d = Dir::new("bodies");
@@ -25,11 +53,7 @@ fn bodies_lists_the_demo_system() {
 #[test]
 fn bodies_prints_real_periods() {
     let d = Dir::new("bodies-standish");
-    let fixture = concat!(
-        env!("CARGO_MANIFEST_DIR"),
-        "/tests/fixtures/standish-table1.toml"
-    );
-    let j = d.run(&["bodies", "--system", fixture, "--json"]).ok();
+    let j = d.run(&["bodies", "--system", STANDISH, "--json"]).ok();
     let v: serde_json::Value = serde_json::from_str(&j.stdout).expect("valid JSON");
     let bodies = v["bodies"].as_array().expect("bodies array");
     let body = |name: &str| {
@@ -164,25 +188,15 @@ fn lambert_batch_solves_good_rows_and_reports_bad_ones() {
 #[test]
 fn transfer_reproduces_curtis_example_8_8() {
     let d = Dir::new("transfer-curtis");
-    let fixture = concat!(
-        env!("CARGO_MANIFEST_DIR"),
-        "/tests/fixtures/standish-table1.toml"
+    let out = transfer(
+        &d,
+        STANDISH,
+        "Earth-Moon Barycenter",
+        "Mars",
+        ["1996-11-07 UTC", "1997-09-12 UTC"],
+        &["--json"],
     );
-    let r = d
-        .run(&[
-            "transfer",
-            "Earth-Moon Barycenter",
-            "Mars",
-            "--system",
-            fixture,
-            "--depart",
-            "1996-11-07 UTC",
-            "--arrive",
-            "1997-09-12 UTC",
-            "--json",
-        ])
-        .ok();
-    let v: serde_json::Value = serde_json::from_str(&r.stdout).expect("JSON");
+    let v: serde_json::Value = serde_json::from_str(&out).expect("JSON");
     let arc = &v["arcs"][0];
     let num = |x: &serde_json::Value| x.as_f64().expect("number");
     assert!(
@@ -217,48 +231,20 @@ fn transfer_reproduces_curtis_example_8_8() {
 #[test]
 fn transfer_angle_and_type_follow_the_geometry() {
     let d = Dir::new("transfer-circles");
-    let fixture = concat!(
-        env!("CARGO_MANIFEST_DIR"),
-        "/tests/fixtures/two-circles.toml"
-    );
     let period_days = std::f64::consts::TAU
         * ((1.524_f64 * 149_597_870.7).powi(3) / 1.32712440041e11).sqrt()
         / 86_400.0;
     for (arrive, tof_days, kind) in [("2030-04-11", 100.0, "I"), ("2031-05-16", 500.0, "II")] {
-        let r = d
-            .run(&[
-                "transfer",
-                "Inner",
-                "Outer",
-                "--system",
-                fixture,
-                "--depart",
-                "2030-01-01",
-                "--arrive",
-                arrive,
-                "--json",
-            ])
-            .ok();
-        let v: serde_json::Value = serde_json::from_str(&r.stdout).expect("JSON");
+        let dates = ["2030-01-01", arrive];
+        let out = transfer(&d, TWO_CIRCLES, "Inner", "Outer", dates, &["--json"]);
+        let v: serde_json::Value = serde_json::from_str(&out).expect("JSON");
         let arc = &v["arcs"][0];
         let want = 40.0 + 360.0 * tof_days / period_days;
         let angle = arc["transfer_angle_deg"].as_f64().expect("angle");
         assert!((angle - want).abs() < 1e-9, "{angle} vs {want}");
         assert_eq!(arc["type"], kind, "{arc}");
-        let text = d
-            .run(&[
-                "transfer",
-                "inner",
-                "outer",
-                "--system",
-                fixture,
-                "--depart",
-                "2030-01-01",
-                "--arrive",
-                arrive,
-            ])
-            .ok();
-        assert!(text.stdout.contains("C3"), "{}", text.stdout);
+        let text = transfer(&d, TWO_CIRCLES, "inner", "outer", dates, &[]);
+        assert!(text.contains("C3"), "{text}");
     }
 }
 
