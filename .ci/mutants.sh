@@ -118,7 +118,7 @@ for id in "${IDS[@]}"; do
     else
         result=CAUGHT
         caught=$((caught + 1))
-        failing=$(grep -E '^test .* FAILED$|^    [a-z_:]+$' "$WORK/.last-test.log" | head -3 | sed 's/^ *//; s/^test //; s/ \.\.\. FAILED//' | paste -sd, -)
+        failing=$(grep -E '^    [a-z0-9_:]+$' "$WORK/.last-test.log" | sed 's/^ *//' | sort -u | head -3 | paste -sd, - || true)
         [ -n "$failing" ] && what="$what [by: $failing]"
     fi
     printf '%-28s %-9s %s (%ss)\n' "$id" "$result" "$what" "$(( $(date +%s) - start ))"
