@@ -269,11 +269,12 @@ fn oversized_grids_are_refused() {
 fn axes_include_their_end() {
     let a = Axis::spanning(0.0, 10.0, 0.1).expect("axis");
     assert_eq!(a.count, 101);
-    assert_eq!(a.value(0), 0.0);
+    assert!(a.value(0).abs() < 1e-12);
     assert!((a.value(100) - 10.0).abs() < 1e-12);
     assert!((a.value(37) - 3.7).abs() < 1e-12);
     let b = Axis::spanning(9000.5, 9010.5, 2.5).expect("axis");
-    assert_eq!((b.count, b.value(0)), (5, 9000.5));
+    assert_eq!(b.count, 5);
+    assert!((b.value(0) - 9000.5).abs() < 1e-12);
     assert!(Axis::spanning(0.0, 1.0, 0.0).is_err());
     assert!(Axis::spanning(1.0, 0.0, 1.0).is_err());
 }
