@@ -8,11 +8,35 @@ use criterion::{criterion_group, criterion_main, Criterion};
 use std::hint::black_box;
 use synodic::ephemeris::System;
 
+/// The states the benchmark visits obey vis-viva and the conic's angular
+/// momentum (energy -mu/(2a), |r x v| = sqrt(mu a (1 - e^2)); Bate,
+/// Mueller & White 1971, ch. 1), checked once before timing so that a
+/// benchmark computing nonsense fails. Tolerance 1e-11: rounding.
+fn check_states(system: &System, body: usize, t0: f64) {
+    let mu = system.central.mu_km3_s2;
+    let el = &system.bodies[body].elements;
+    let (a, e) = (el.a_km, el.e);
+    let h_want = (mu * a * (1.0 - e * e)).sqrt();
+    let mut day = 0.0_f64;
+    for _ in 0..500 {
+        day = (day + 7.3) % 3000.0;
+        let s = system.state_at_days(body, t0 + day);
+        let energy = 0.5 * s.v_km_s.norm_squared() - mu / s.r_km.norm();
+        assert!(
+            (energy / (-mu / (2.0 * a)) - 1.0).abs() < 1e-11,
+            "energy {energy} at day {day}"
+        );
+        let h = s.r_km.cross(&s.v_km_s).norm();
+        assert!((h / h_want - 1.0).abs() < 1e-11, "|h| {h} at day {day}");
+    }
+}
+
 fn state(c: &mut Criterion) {
     let system = System::demo();
     // The eccentric, inclined minor body: the most Kepler iterations.
     let body = system.find("Iskra").expect("demo body");
     let t0 = system.epoch.days_since_j2000_tdb();
+    check_states(&system, body, t0);
     let mut day = 0.0_f64;
     c.bench_function("ephemeris/state", |b| {
         b.iter(|| {

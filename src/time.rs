@@ -519,7 +519,7 @@ mod tests {
     /// One millisecond in days: the resolution epochs are printed at.
     const MS_DAYS: f64 = 1.0e-3 / SECONDS_PER_DAY;
 
-    /// Source: IAU definition of J2000.0 (REFERENCES.md section 4):
+    /// Source: IAU definition of J2000.0:
     /// J2000.0 = JD 2451545.0 TT = 2000-01-01T12:00:00 TT.
     /// TDB - TT at J2000 is below 2 ms, so the TDB day count is 0 to
     /// within 2 ms (tolerance: the amplitude of TDB - TT, 1.66 ms).
@@ -536,7 +536,7 @@ mod tests {
         assert_relative_eq!(h.to_jde_tt_days(), J2000_JD, epsilon = 1e-9);
     }
 
-    /// Source: IAU, TT - TAI = 32.184 s exactly (REFERENCES.md section 4).
+    /// Source: IAU, TT - TAI = 32.184 s exactly (IAU 1991 Resolution A4).
     /// Tolerance 1 microsecond: float rounding of an 1e9-second count.
     #[test]
     fn tt_minus_tai_is_32_184_s() {
@@ -547,8 +547,8 @@ mod tests {
         assert_relative_eq!(dt_s, 32.184, epsilon = 1e-6);
     }
 
-    /// Source: IERS Bulletin C 52, TAI - UTC = 37 s from 2017-01-01
-    /// (REFERENCES.md section 4). Tolerance 1 microsecond (float rounding).
+    /// Source: IERS Bulletin C 52, TAI - UTC = 37 s from 2017-01-01.
+    /// Tolerance 1 microsecond (float rounding).
     #[test]
     fn tai_minus_utc_is_37_s_in_2020() {
         let tai = Epoch::parse("2020-03-15T00:00:00 TAI").expect("valid");
@@ -558,7 +558,7 @@ mod tests {
     }
 
     /// Source: IERS Bulletin C 52 (TAI - UTC = 37 s) and IAU (TT - TAI =
-    /// 32.184 s), REFERENCES.md section 4: TDB - UTC = 69.184 s plus the
+    /// 32.184 s): TDB - UTC = 69.184 s plus the
     /// periodic TDB - TT term, whose amplitude is 1.66 ms (the tolerance;
     /// assumes no new leap second before 2033, as announced so far).
     #[test]

@@ -670,6 +670,9 @@ pub enum TransferError {
 }
 
 #[cfg(test)]
+mod capture_tests;
+
+#[cfg(test)]
 mod tests {
     use super::*;
     use approx::assert_relative_eq;
@@ -679,15 +682,15 @@ mod tests {
     /// v-infinity 2.943 km/s.
     ///
     /// Source: Curtis (2010), *Orbital Mechanics for Engineering Students*,
-    /// Example 8.4 (from memory, REFERENCES.md section 3). The book prints
-    /// four digits, so the tolerance is 1e-3 km/s.
+    /// Example 8.4 (from memory). The book prints four digits, so the
+    /// tolerance is half the last one, 5e-4 km/s.
     #[test]
     fn injection_dv_matches_curtis_example_8_4() {
         let park = ParkingOrbit {
             mu_km3_s2: 398_600.0,
             radius_km: 6378.0 + 300.0,
         };
-        assert_relative_eq!(park.injection_dv_km_s(2.943), 3.590, epsilon = 1e-3);
+        assert_relative_eq!(park.injection_dv_km_s(2.943), 3.590, epsilon = 5e-4);
     }
 
     /// With zero excess speed, injection costs exactly the step from
@@ -771,14 +774,17 @@ mod tests {
 
     /// Earth (Earth-Moon barycentre) 1996-11-07 0h UT to Mars 1997-09-12
     /// 0h UT: departure v-infinity 3.1651 km/s, arrival v-infinity 2.8852
-    /// km/s; transfer orbit e 0.2058, i 1.662 deg, a 1.8474e8 km.
+    /// km/s; transfer orbit e 0.2058, i 1.662 deg, a 1.8474e8 km; a Type II
+    /// transfer (transfer angle above 180 deg).
     ///
     /// Source: Curtis (2010), *Orbital Mechanics for Engineering Students*,
-    /// Example 8.8 (from memory, REFERENCES.md section 3), with Standish,
-    /// "Keplerian Elements for Approximate Positions of the Major Planets",
-    /// Table 1 as the test fixture. The book's own element table carries
-    /// typos, so the tolerance is 2e-3 km/s on the speeds; the orbit is
-    /// checked to the printed digits loosely.
+    /// Example 8.8 (from memory), with Standish, "Keplerian Elements for
+    /// Approximate Positions of the Major Planets", Table 1 as the test
+    /// fixture. Tolerances: the book's own element table differs from
+    /// Standish's (its Mars a-rate is ten times too large), which moves the
+    /// speeds by up to ~1e-3 km/s, so 1e-3 km/s (5.4e-4 and 2e-5 measured);
+    /// the orbit to its printed digits plus one: 1e-4 on e, 1e-3 deg on i,
+    /// 1e-4 relative on a (1.6e-5, 2e-4 deg and 4.3e-5 measured).
     #[test]
     fn curtis_example_8_8_earth_to_mars() {
         let system = System::from_toml_str(
@@ -802,16 +808,15 @@ mod tests {
         .expect("solvable");
         let (f, sol) = &arcs[0];
         assert!(
-            (f.vinf_depart_km_s - 3.1651).abs() < 2e-3,
+            (f.vinf_depart_km_s - 3.1651).abs() < 1e-3,
             "{}",
             f.vinf_depart_km_s
         );
         assert!(
-            (f.vinf_arrive_km_s - 2.8852).abs() < 2e-3,
+            (f.vinf_arrive_km_s - 2.8852).abs() < 1e-3,
             "{}",
             f.vinf_arrive_km_s
         );
-        // A Type II transfer (REFERENCES.md section 3).
         assert_eq!(f.kind, TransferType::II);
         let r1 = system.state(earth, &depart).r_km;
         let conic = crate::orbit::conic_from_state(
@@ -822,10 +827,10 @@ mod tests {
             system.central.mu_km3_s2,
         )
         .expect("elliptic arc");
-        assert!((conic.e - 0.2058).abs() < 1e-3, "e {}", conic.e);
-        assert!((conic.i_deg - 1.662).abs() < 0.01, "i {}", conic.i_deg);
+        assert!((conic.e - 0.2058).abs() < 1e-4, "e {}", conic.e);
+        assert!((conic.i_deg - 1.662).abs() < 1e-3, "i {}", conic.i_deg);
         assert!(
-            (conic.a_km / 1.8474e8 - 1.0).abs() < 1e-3,
+            (conic.a_km / 1.8474e8 - 1.0).abs() < 1e-4,
             "a {}",
             conic.a_km
         );

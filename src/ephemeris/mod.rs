@@ -41,3 +41,6 @@ pub const AU_KM: f64 = 149_597_870.7;
 ///
 /// Source: IAU (a Julian century is 36525 days of 86400 s).
 pub const JULIAN_CENTURY_DAYS: f64 = 36525.0;
+
+#[cfg(test)]
+mod standish_tests;

@@ -192,8 +192,8 @@ mod tests {
     /// The orbit of Curtis's Example 5.2 arc, with the Example 5.2
     /// velocity at r1 as input.
     /// Source: Curtis (2010), Orbital Mechanics for Engineering Students,
-    /// 2nd ed., Example 5.3 (values from memory, see
-    /// shared/REFERENCES.md 1.1): h ~ 80470 km^2/s, e ~ 0.4335,
+    /// 2nd ed., Example 5.3 (values from memory): h ~ 80470 km^2/s,
+    /// e ~ 0.4335,
     /// i ~ 30.19 deg, RAAN ~ 44.60 deg, a ~ 20000 km.
     #[test]
     fn curtis_example_5_3_from_memory() {

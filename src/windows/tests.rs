@@ -139,9 +139,12 @@ fn refined_optimum_matches_fine_brute_force() {
 
 /// Earth to Mars minimum-C3 opportunities from 2026 to 2035 lie in the
 /// 7.5-10.5 km^2/s^2 band that mission-design handbooks report (from
-/// memory; e.g. Burke, Falck & McGuire, NASA/TM-2010-216764, as listed in
-/// REFERENCES.md section 3). Elements: Standish, "Keplerian Elements for
-/// Approximate Positions of the Major Planets", Table 1 (test fixture).
+/// memory; e.g. Burke, Falck & McGuire, *Interplanetary Mission Design
+/// Handbook: Earth-to-Mars Mission Opportunities 2026 to 2045*,
+/// NASA/TM-2010-216764, whose per-opportunity table was not at hand, so
+/// the band is not narrowed per opportunity). Elements: Standish,
+/// "Keplerian Elements for Approximate Positions of the Major Planets",
+/// Table 1 (test fixture).
 #[test]
 fn earth_mars_minimum_c3_2026_to_2035_in_handbook_band() {
     let system = System::from_toml_str(

@@ -1,6 +1,7 @@
 //! Tests of system files, the demo system and the Standish fixture.
 
 use super::*;
+use crate::orbit::propagate;
 use crate::time::Epoch;
 use approx::assert_relative_eq;
 use std::f64::consts::TAU;
@@ -104,34 +105,33 @@ fn demo_has_two_pairs_with_short_synodic_periods() {
     assert!((1.5..=3.0).contains(&(sys.synodic_period_days(teodra, vell) / 365.25)));
 }
 
-/// Kepler's third law: P = 2 pi sqrt(a^3 / mu), checked three ways per demo
-/// body: the formula, the derived mean-longitude rate (360 deg per period),
-/// and the propagated state returning to its start after one period.
-/// Tolerances: 1e-12 for the formula (rounding); 1e-9 relative for the
-/// return (the mean longitude, ~360 deg, loses ~1e-13 in degrees, and
-/// r ~ 1e9 km turns that into ~1e-4 km; 1e-9 relative leaves margin).
+/// Kepler's third law and the states, checked against an independent
+/// two-body propagator (universal variables, Bate, Mueller & White 1971,
+/// ch. 4; `crate::orbit::propagate`) for every demo body: the state
+/// propagated for `period_days` returns to its start, and the ephemeris
+/// state 0.37 period later equals the propagated one (so the derived
+/// mean-longitude rate is the two-body mean motion). Half a period later
+/// the body is elsewhere (the check can fail). Tolerance 1e-9 relative:
+/// the mean longitude, ~1e4 deg after a century, carries ~1e-12 deg of
+/// rounding, and r ~ 1e9 km turns that into ~1e-4 km.
 #[test]
 fn demo_periods_obey_keplers_third_law() {
     let sys = System::demo();
     let mu = sys.central.mu_km3_s2;
     for (k, b) in sys.bodies.iter().enumerate() {
         let a = b.elements.a_km;
-        let p_days = TAU * (a * a * a / mu).sqrt() / 86400.0;
-        assert_relative_eq!(sys.period_days(k), p_days, max_relative = 1e-12);
-        let from_rate = 360.0 / b.rates.mean_lon_deg * JULIAN_CENTURY_DAYS;
-        assert_relative_eq!(from_rate, p_days, max_relative = 1e-12);
         let t0 = sys.epoch.plus_days(123.4);
         let s0 = sys.state(k, &t0);
-        let s1 = sys.state(k, &t0.plus_days(sys.period_days(k)));
-        assert_relative_eq!(s1.r_km, s0.r_km, max_relative = 1e-9, epsilon = 1e-9 * a);
+        let period_s = sys.period_days(k) * 86_400.0;
         let v_scale = s0.v_km_s.norm();
-        assert_relative_eq!(
-            s1.v_km_s,
-            s0.v_km_s,
-            max_relative = 1e-9,
-            epsilon = 1e-9 * v_scale
-        );
-        // Half a period later the body is elsewhere (the check can fail).
+        let back = propagate(&s0, period_s, mu).expect("ellipse propagates");
+        assert_relative_eq!(back.r_km, s0.r_km, epsilon = 1e-9 * a);
+        assert_relative_eq!(back.v_km_s, s0.v_km_s, epsilon = 1e-9 * v_scale);
+        let part = 0.37 * sys.period_days(k);
+        let later = sys.state(k, &t0.plus_days(part));
+        let moved = propagate(&s0, part * 86_400.0, mu).expect("ellipse propagates");
+        assert_relative_eq!(later.r_km, moved.r_km, epsilon = 1e-9 * a);
+        assert_relative_eq!(later.v_km_s, moved.v_km_s, epsilon = 1e-9 * v_scale);
         let half = sys.state(k, &t0.plus_days(0.5 * sys.period_days(k)));
         assert!((half.r_km - s0.r_km).norm() > a);
     }
@@ -158,7 +158,8 @@ fn energy_and_angular_momentum_are_conserved() {
         assert_relative_eq!(h, h0, max_relative = 1e-12, epsilon = 1e-12 * h0.norm());
         assert_relative_eq!(h.norm() / 2.0, h0.norm() / 2.0, max_relative = 1e-12);
     }
-    // The areal rate equals pi a b / P (area of the ellipse per period).
+    // The areal rate equals pi a b / P (area of the ellipse per period;
+    // P is checked against the propagator in the test above).
     let e = sys.bodies[k].elements.e;
     let area_rate = std::f64::consts::PI * a * a * (1.0 - e * e).sqrt() / (p * 86400.0);
     assert_relative_eq!(h0.norm() / 2.0, area_rate, max_relative = 1e-12);
@@ -170,9 +171,15 @@ fn energy_and_angular_momentum_are_conserved() {
 /// Source: NASA Mars Exploration Program: Earth-Mars centre distance at the
 /// 2003 close approach, 2003-08-27 09:51 UT, 55,758,006 km. Model:
 /// Standish, *Keplerian Elements for Approximate Positions of the Major
-/// Planets*, Table 1 (Earth-Moon barycentre and Mars). Tolerance 0.2 %:
-/// Table 1's stated errors (6000 km EMB, 25000 km Mars) plus the
-/// barycentre-to-Earth offset (~4700 km) are ~0.06 % of the distance.
+/// Planets*, Table 1 (Earth-Moon barycentre and Mars).
+///
+/// Tolerance 1e-3 relative (7.6e-4 measured). Table 1's stated distance
+/// errors (6000 km EMB, 25000 km Mars) plus the barycentre-to-Earth offset
+/// (~4700 km) make 6.4e-4 of the distance, but at this instant Table 1
+/// puts Mars 39,000 km farther from the Sun than SOFA's plan94 does
+/// (whose Mars, with SOFA's epv00 Earth, lands 830 km, 1.5e-5, from the
+/// NASA figure): the model's own error here exceeds its stated figure.
+/// 1e-3 allows that and still fails on a 0.1 % error (56,000 km).
 #[test]
 fn earth_mars_distance_2003_close_approach() {
     let sys = standish();
@@ -180,10 +187,10 @@ fn earth_mars_distance_2003_close_approach() {
     let earth = sys.state(sys.find("earth-moon barycenter").expect("EMB"), &t);
     let mars = sys.state(sys.find("MARS").expect("Mars"), &t);
     let d = (mars.r_km - earth.r_km).norm();
-    assert_relative_eq!(d, 55_758_006.0, max_relative = 2e-3);
+    assert_relative_eq!(d, 55_758_006.0, max_relative = 1e-3);
 }
 
-/// Sidereal periods from memory (REFERENCES.md section 4, marked [M]):
+/// Sidereal periods from memory:
 /// Earth 365.256 d, Mars 686.98 d. With Standish's a and the Sun's GM the
 /// barycentre's and Mars' masses are neglected (relative 1.5e-6 and
 /// 2e-7 in P) and a differs from the true mean by ~4e-6: tolerances
@@ -290,12 +297,34 @@ fn pole_unit_vector() {
     assert_relative_eq!(up, Vector3::z(), epsilon = 1e-15);
 }
 
-/// Synodic period 1/|1/Pa - 1/Pb|: symmetric; equal periods never realign.
-/// Worked value: periods 1 and 2 give 2 (exact in binary).
+/// The synodic period is the time between alignments: on two circular
+/// coplanar orbits (tests/fixtures/two-circles.toml) the angle between
+/// the bodies' position vectors, measured from the states, repeats after
+/// one synodic period and is shifted by 180 deg after half of one.
+/// Tolerance 1e-9 rad: rounding of mean longitudes of ~1e3 deg.
+/// Equal periods never realign (infinite period).
 #[test]
-fn synodic_period_formula() {
-    assert_relative_eq!(synodic_period_days(1.0, 2.0), 2.0, max_relative = 1e-15);
-    assert_relative_eq!(synodic_period_days(2.0, 1.0), 2.0, max_relative = 1e-15);
+fn synodic_period_returns_the_bodies_to_their_phase() {
+    let sys = System::from_toml_str(
+        include_str!("../../../tests/fixtures/two-circles.toml"),
+        "two-circles.toml",
+    )
+    .expect("fixture parses");
+    let phase = |days: f64| {
+        let (r1, r2) = (
+            sys.state_at_days(0, days).r_km,
+            sys.state_at_days(1, days).r_km,
+        );
+        r2.y.atan2(r2.x) - r1.y.atan2(r1.x)
+    };
+    let wrap = |x: f64| (x + std::f64::consts::PI).rem_euclid(TAU) - std::f64::consts::PI;
+    let synodic = sys.synodic_period_days(0, 1);
+    assert_relative_eq!(synodic, sys.synodic_period_days(1, 0), max_relative = 1e-15);
+    let t0 = sys.epoch.days_since_j2000_tdb() + 17.0;
+    assert!(wrap(phase(t0 + synodic) - phase(t0)).abs() < 1e-9);
+    assert!(
+        (wrap(phase(t0 + 0.5 * synodic) - phase(t0)).abs() - std::f64::consts::PI).abs() < 1e-9
+    );
     assert!(synodic_period_days(400.0, 400.0).is_infinite());
 }
 
