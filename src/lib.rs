@@ -77,6 +77,7 @@ pub mod chart;
 pub mod ephemeris;
 pub mod error;
 pub mod export;
+pub mod flyby;
 pub mod lambert;
 pub mod opportunity;
 pub mod orbit;
