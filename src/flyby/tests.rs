@@ -373,3 +373,34 @@ fn survey_ranks_sequences() {
     bad.max_flybys = 0;
     assert_eq!(survey(&system, &bad).expect("direct only").rows.len(), 1);
 }
+
+/// With a parking orbit and a capture orbit, the launch and arrival terms
+/// are the vis-viva burns at the orbit's periapsis,
+/// `sqrt(v_inf^2 + 2 mu / r) - v_orbit` (Curtis 2010, ch. 8, departure and
+/// capture hyperbolas; equation numbers from memory not quoted), written
+/// out here independently of the transfer module.
+#[test]
+fn parking_and_capture_burns_count() {
+    let system = fixture();
+    let mut spec = evm_spec(&system);
+    spec.park_altitude_km = Some(200.0);
+    spec.capture = Some((400.0, 0.5));
+    let found = search_sequence(&system, &spec).expect("valid");
+    let t = &found.trajectories[0];
+    let (mu_e, r_e) = (398_600.4418, 6378.137 + 200.0);
+    let v = t.c3_km2_s2.sqrt();
+    let launch = (v * v + 2.0 * mu_e / r_e).sqrt() - (mu_e / r_e).sqrt();
+    assert!(
+        (t.dv_launch_km_s - launch).abs() < 1e-12,
+        "{} vs {launch}",
+        t.dv_launch_km_s
+    );
+    let (mu_m, rp) = (42_828.37, 3396.19 + 400.0);
+    let w = t.vinf_arrive_km_s;
+    let capture = (w * w + 2.0 * mu_m / rp).sqrt() - (mu_m * 1.5 / rp).sqrt();
+    assert!(
+        (t.dv_arrive_km_s - capture).abs() < 1e-12,
+        "{} vs {capture}",
+        t.dv_arrive_km_s
+    );
+}
