@@ -387,7 +387,7 @@ fn parking_and_capture_burns_count() {
     spec.capture = Some((400.0, 0.5));
     let found = search_sequence(&system, &spec).expect("valid");
     let t = &found.trajectories[0];
-    let (mu_e, r_e) = (398_600.4418, 6378.137 + 200.0);
+    let (mu_e, r_e) = (398_600.441_8, 6378.137 + 200.0);
     let v = t.c3_km2_s2.sqrt();
     let launch = (v * v + 2.0 * mu_e / r_e).sqrt() - (mu_e / r_e).sqrt();
     assert!(
