@@ -32,7 +32,7 @@ pub struct SearchResult {
 /// best candidates.
 ///
 /// # Method
-/// The grid stage ([`grid`](self) module docs: every leg solved once per
+/// The grid stage (every leg solved once per
 /// pair of grid dates by Izzo's (2015) Lambert solver, legs matched at
 /// each flyby date by dynamic programming with speed-window, lower-bound
 /// and turn-angle pruning), then, for the best departure dates at least
