@@ -5,8 +5,8 @@
 //! Encounter `k` of a sequence may fall on grid dates `lo_k ..= hi_k`
 //! (the departure span, widened by each earlier leg's time-of-flight
 //! range). Leg `k` is solved by Lambert's problem (Izzo 2015, through
-//! [`crate::lambert`]) for every departure date and every time of flight
-//! of its range, once; arcs that break the C3 ceiling (first leg) or the
+//! [`crate::transfer::arcs_between`], the single-transfer computation) for
+//! every departure date and every time of flight of its range, once; arcs that break the C3 ceiling (first leg) or the
 //! arrival v-infinity ceiling (last leg) are dropped at once.
 //!
 //! The objective is a sum along the chain: the launch term of the first
@@ -39,9 +39,9 @@ use rayon::prelude::*;
 use super::model::{matching_speed_window, periapsis_dv_km_s, quick_dv_km_s};
 use super::spec::Plan;
 use crate::ephemeris::System;
-use crate::lambert::{self, Branch, Direction, LambertProblem};
-use crate::orbit::State;
-use crate::transfer::SECONDS_PER_DAY;
+use crate::lambert::Branch;
+use crate::time::Epoch;
+use crate::transfer::{arcs_between, Endpoints};
 
 /// One solved leg on the grid.
 #[derive(Debug, Clone, Copy)]
@@ -122,17 +122,8 @@ pub(crate) struct GridResult {
 pub(crate) fn run(system: &System, plan: &Plan) -> GridResult {
     let mut stats = GridStats::default();
     let n_legs = plan.legs.len();
-    let states: Vec<Vec<State>> = (0..=n_legs)
-        .map(|k| {
-            let (lo, hi) = plan.date_range(k);
-            let body = plan.bodies[k];
-            (lo..=hi)
-                .map(|i| system.state_at_days(body, plan.day(i)))
-                .collect()
-        })
-        .collect();
     let legs: Vec<Vec<Arc>> = (0..n_legs)
-        .map(|k| solve_leg(system, plan, &states, k, &mut stats))
+        .map(|k| solve_leg(system, plan, k, &mut stats))
         .collect();
     let mut stages: Vec<Stage> = Vec::with_capacity(n_legs);
     for (k, arcs) in legs.into_iter().enumerate().rev() {
@@ -186,73 +177,51 @@ fn to_f32(v: &Vector3<f64>) -> [f32; 3] {
 
 /// Solves leg `k` for every departure date and time of flight, in
 /// departure order, keeping the arcs inside the ceilings.
-fn solve_leg(
-    system: &System,
-    plan: &Plan,
-    states: &[Vec<State>],
-    k: usize,
-    stats: &mut GridStats,
-) -> Vec<Arc> {
+///
+/// Each arc is [`arcs_between`], the computation of a single transfer, so
+/// grid legs and reported legs cannot disagree.
+fn solve_leg(system: &System, plan: &Plan, k: usize, stats: &mut GridStats) -> Vec<Arc> {
     let leg = plan.legs[k];
     let (lo, hi) = plan.date_range(k);
-    let (lo_next, _) = plan.date_range(k + 1);
-    let mu = system.central.mu_km3_s2;
     let first = k == 0;
     let last = k + 1 == plan.legs.len();
+    let ends = Endpoints::bare();
     let rows: Vec<(Vec<Arc>, u64)> = (lo..=hi)
         .into_par_iter()
         .map(|p| {
-            let s1 = &states[k][(p - lo) as usize];
-            let normal = s1.r_km.cross(&s1.v_km_s);
+            let depart = Epoch::from_days_since_j2000_tdb(plan.day(p));
             let mut row = Vec::new();
             let mut solved = 0u64;
             for q in leg.q_min..=leg.q_max {
                 let arr = p + q;
-                let s2 = &states[k + 1][(arr - lo_next) as usize];
-                let tof_s = f64::from(q) * plan.step_days * SECONDS_PER_DAY;
+                let arrive = Epoch::from_days_since_j2000_tdb(plan.day(arr));
                 solved += 1;
-                let mut keep = |sol: &lambert::LambertSolution| {
-                    let vd = sol.v1 - s1.v_km_s;
-                    let va = sol.v2 - s2.v_km_s;
-                    if first && !plan.c3_ok(vd.norm()) {
-                        return;
+                let Ok(found) = arcs_between(
+                    system,
+                    leg.from,
+                    leg.to,
+                    &depart,
+                    &arrive,
+                    &ends,
+                    leg.max_revs,
+                ) else {
+                    continue;
+                };
+                for (f, sol) in found {
+                    if first && !plan.c3_ok(f.vinf_depart_km_s) {
+                        continue;
                     }
-                    if last && !plan.arrive_ok(va.norm()) {
-                        return;
+                    if last && !plan.arrive_ok(f.vinf_arrive_km_s) {
+                        continue;
                     }
                     row.push(Arc {
                         dep: p,
                         arr,
                         revs: sol.revs.min(255) as u8,
                         branch: sol.branch,
-                        vd: to_f32(&vd),
-                        va: to_f32(&va),
+                        vd: to_f32(&f.vinf_depart),
+                        va: to_f32(&f.vinf_arrive),
                     });
-                };
-                if leg.max_revs == 0 {
-                    if let Ok(sol) = lambert::solve_zero_rev(
-                        &s1.r_km,
-                        &s2.r_km,
-                        tof_s,
-                        mu,
-                        Direction::Prograde,
-                        Some(&normal),
-                    ) {
-                        keep(&sol);
-                    }
-                } else {
-                    let problem = LambertProblem {
-                        r1: s1.r_km,
-                        r2: s2.r_km,
-                        tof: tof_s,
-                        mu,
-                        direction: Direction::Prograde,
-                        max_revs: leg.max_revs,
-                        reference_normal: Some(normal),
-                    };
-                    if let Ok(sols) = lambert::solve(&problem) {
-                        sols.iter().for_each(&mut keep);
-                    }
                 }
             }
             (row, solved)
