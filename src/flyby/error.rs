@@ -136,3 +136,31 @@ pub enum FlybyError {
         max_flybys: usize,
     },
 }
+
+/// `value` if finite, else [`FlybyError::NonFinite`].
+pub(crate) fn finite(what: &'static str, value: f64) -> Result<f64, FlybyError> {
+    if value.is_finite() {
+        Ok(value)
+    } else {
+        Err(FlybyError::NonFinite { what, value })
+    }
+}
+
+/// `value` if finite and > 0, else [`FlybyError::NonFinite`] or
+/// [`FlybyError::NonPositive`].
+pub(crate) fn positive(what: &'static str, value: f64) -> Result<f64, FlybyError> {
+    if finite(what, value)? > 0.0 {
+        Ok(value)
+    } else {
+        Err(FlybyError::NonPositive { what, value })
+    }
+}
+
+/// `value` if finite and >= 0, else [`FlybyError::Limit`].
+pub(crate) fn limit(what: &'static str, value: f64) -> Result<f64, FlybyError> {
+    if value.is_finite() && value >= 0.0 {
+        Ok(value)
+    } else {
+        Err(FlybyError::Limit { what, value })
+    }
+}

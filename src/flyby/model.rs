@@ -48,7 +48,7 @@ use std::f64::consts::PI;
 
 use nalgebra::Vector3;
 
-use super::error::FlybyError;
+use super::error::{finite, limit, positive, FlybyError};
 use crate::ephemeris::Body;
 
 /// Turns below this many radians count as no turn: the periapsis radius is
@@ -90,12 +90,7 @@ impl FlybyBody {
     ) -> Result<FlybyBody, FlybyError> {
         positive("the flyby body's GM (km^3/s^2)", mu_km3_s2)?;
         positive("the flyby body's radius (km)", radius_km)?;
-        if !(min_altitude_km.is_finite() && min_altitude_km >= 0.0) {
-            return Err(FlybyError::Limit {
-                what: "the minimum flyby altitude (km)",
-                value: min_altitude_km,
-            });
-        }
+        limit("the minimum flyby altitude (km)", min_altitude_km)?;
         Ok(FlybyBody {
             mu_km3_s2,
             radius_km,
@@ -123,16 +118,6 @@ impl FlybyBody {
     /// altitude.
     pub fn min_periapsis_km(&self) -> f64 {
         self.radius_km + self.min_altitude_km
-    }
-}
-
-fn positive(what: &'static str, value: f64) -> Result<(), FlybyError> {
-    if !value.is_finite() {
-        Err(FlybyError::NonFinite { what, value })
-    } else if value <= 0.0 {
-        Err(FlybyError::NonPositive { what, value })
-    } else {
-        Ok(())
     }
 }
 
@@ -259,15 +244,9 @@ pub fn powered_periapsis_km(
     vout_km_s: f64,
     mu_km3_s2: f64,
 ) -> Result<f64, FlybyError> {
-    for (what, v) in [
-        ("the turn angle", turn_rad),
-        ("the incoming v-infinity", vin_km_s),
-        ("the outgoing v-infinity", vout_km_s),
-    ] {
-        if !v.is_finite() {
-            return Err(FlybyError::NonFinite { what, value: v });
-        }
-    }
+    finite("the turn angle", turn_rad)?;
+    finite("the incoming v-infinity", vin_km_s)?;
+    finite("the outgoing v-infinity", vout_km_s)?;
     positive("the flyby body's GM (km^3/s^2)", mu_km3_s2)?;
     if vin_km_s <= 0.0 {
         return Err(FlybyError::ZeroExcessSpeed { which: "incoming" });
@@ -424,12 +403,7 @@ pub fn evaluate(
     body: &FlybyBody,
     unpowered_tol_km_s: f64,
 ) -> Result<FlybyFigures, FlybyError> {
-    if !(unpowered_tol_km_s.is_finite() && unpowered_tol_km_s >= 0.0) {
-        return Err(FlybyError::Limit {
-            what: "the unpowered-flyby tolerance (km/s)",
-            value: unpowered_tol_km_s,
-        });
-    }
+    limit("the unpowered-flyby tolerance (km/s)", unpowered_tol_km_s)?;
     let (a, b) = (vinf_in.norm(), vinf_out.norm());
     let turn = angle_between_rad(vinf_in, vinf_out);
     let mu = body.mu_km3_s2;

@@ -1,7 +1,7 @@
 //! What a sequence search is asked for, its defaults, and its checked,
 //! resolved form.
 
-use super::error::FlybyError;
+use super::error::{finite, limit, FlybyError};
 use super::model::{FlybyBody, UNPOWERED_TOLERANCE_KM_S};
 use crate::ephemeris::System;
 use crate::opportunity::hohmann_tof_days;
@@ -218,22 +218,6 @@ impl Plan {
     /// Whether an arrival v-infinity respects its ceiling.
     pub fn arrive_ok(&self, vinf_km_s: f64) -> bool {
         self.vinf_arrive_max.is_none_or(|v| vinf_km_s <= v)
-    }
-}
-
-fn finite(what: &'static str, value: f64) -> Result<f64, FlybyError> {
-    if value.is_finite() {
-        Ok(value)
-    } else {
-        Err(FlybyError::NonFinite { what, value })
-    }
-}
-
-fn limit(what: &'static str, value: f64) -> Result<f64, FlybyError> {
-    if value.is_finite() && value >= 0.0 {
-        Ok(value)
-    } else {
-        Err(FlybyError::Limit { what, value })
     }
 }
 
