@@ -54,8 +54,30 @@ fn evm_spec(system: &System) -> SequenceSpec {
 #[test]
 fn reported_trajectories_are_physical() {
     let system = fixture();
-    let spec = evm_spec(&system);
-    let found = search_sequence(&system, &spec).expect("valid spec");
+    check_physical(&system, &evm_spec(&system));
+}
+
+/// As [`reported_trajectories_are_physical`], with one-revolution arcs
+/// allowed on both legs: every reported leg is the single-leg solution
+/// with the same revolutions and branch.
+#[test]
+fn multi_revolution_legs_are_physical() {
+    let system = fixture();
+    let mut spec = evm_spec(&system);
+    spec.max_revs = vec![1, 1];
+    spec.tof_days = vec![Some((300.0, 450.0)), None];
+    spec.refine_count = 6;
+    spec.separation_days = 5.0;
+    let found = check_physical(&system, &spec);
+    // 300-450 days to Venus: the best arcs go once round the Sun.
+    assert!(found
+        .trajectories
+        .iter()
+        .any(|t| t.legs.iter().any(|l| l.revs == 1)));
+}
+
+fn check_physical(system: &System, spec: &SequenceSpec) -> SearchResult {
+    let found = search_sequence(system, spec).expect("valid spec");
     assert!(
         !found.trajectories.is_empty(),
         "EVM 2030 has feasible chains"
@@ -66,10 +88,13 @@ fn reported_trajectories_are_physical() {
         for (k, leg) in t.legs.iter().enumerate() {
             let (from, to) = (t.bodies[k], t.bodies[k + 1]);
             let (d, a) = (&t.encounters[k], &t.encounters[k + 1]);
-            let arcs = arcs_between(&system, from, to, d, a, &Endpoints::bare(), 0)
+            let arcs = arcs_between(system, from, to, d, a, &Endpoints::bare(), leg.revs)
                 .expect("single leg solvable");
-            let single = &arcs[0].0;
-            assert_eq!(leg.revs, 0);
+            let single = &arcs
+                .iter()
+                .find(|(f, _)| f.revs == leg.revs && f.branch == leg.branch)
+                .expect("the same solution")
+                .0;
             assert!((leg.vinf_depart - single.vinf_depart).norm() < 1e-9);
             assert!((leg.vinf_arrive - single.vinf_arrive).norm() < 1e-9);
             assert!(
@@ -119,6 +144,7 @@ fn reported_trajectories_are_physical() {
         assert!((t.dv_launch_km_s - t.c3_km2_s2.sqrt()).abs() < 1e-12);
         assert!((t.dv_arrive_km_s - t.vinf_arrive_km_s).abs() < 1e-12);
     }
+    found
 }
 
 /// The dynamic programme is exact on the grid: brute force over every
