@@ -21,13 +21,16 @@
 //! date is then exact too (a forward pass keeps one chain per arc and
 //! loses departures dominated at every later arc).
 //!
-//! Matching at a flyby date prunes in three steps: outgoing arcs are
-//! sorted by speed and only those within the
+//! Matching at a flyby date prunes in four steps: outgoing arcs are read
+//! in order of their cost to go, and the reading stops at the first that
+//! costs as much as the best completion found (impulses are never
+//! negative); arcs outside the
 //! [`matching_speed_window`](super::model::matching_speed_window) of the
-//! incoming arc's speed are looked at; a lower bound on the impulse (its
-//! value at the minimum periapsis) skips pairs that cannot beat the best
-//! completion found so far; the turn reachable at the minimum periapsis
-//! rejects the rest before any root finding.
+//! incoming arc's speed are skipped; so are those whose lower bound on the
+//! impulse (its value at the minimum periapsis) cannot beat the best; the
+//! turn reachable at the minimum periapsis, compared through cosines with
+//! the halves precomputed per arc, rejects the rest before any root
+//! finding.
 //!
 //! Work is split over dates with rayon; every minimum is taken in a fixed
 //! order with ties broken by arc index, so results are the same for any
@@ -72,15 +75,17 @@ pub struct GridStats {
     /// Lambert problems posed (one per leg, departure date and time of
     /// flight).
     pub arcs_solved: u64,
-    /// Arcs kept: solved, and within the C3 and arrival ceilings.
+    /// Arcs kept: solutions (up to `1 + 2 M` per problem with `M`
+    /// revolutions allowed) within the C3 and arrival ceilings.
     pub arcs_kept: u64,
     /// Pairs of arcs meeting at a flyby date (incoming x outgoing, summed
     /// over flyby dates): what a full enumeration would evaluate.
     pub pairs_possible: u64,
-    /// Pairs inside the speed window and not beaten by the lower bound:
-    /// those whose turn was checked.
+    /// Pairs read before the cost cut-off, inside the speed window and
+    /// not beaten by the impulse's lower bound: those whose turn was
+    /// checked.
     pub pairs_examined: u64,
-    /// Pairs flyable within the impulse bound.
+    /// Examined pairs flyable within the impulse bound.
     pub pairs_feasible: u64,
     /// First-leg arcs with a feasible completion to the arrival (each
     /// the start of the best chain through it).
@@ -236,6 +241,29 @@ fn solve_leg(system: &System, plan: &Plan, k: usize, stats: &mut GridStats) -> V
     arcs
 }
 
+/// An outgoing arc as the matching loop reads it.
+#[derive(Debug, Clone, Copy)]
+struct Out {
+    /// Cost to go, km/s.
+    cost: f64,
+    /// Departure v-infinity, km/s, and its vector.
+    speed: f64,
+    v: Vector3<f64>,
+    /// Sine and cosine of the half turn at the minimum periapsis.
+    sin: f64,
+    cos: f64,
+    /// Index in the next stage.
+    index: u32,
+}
+
+/// Sine and cosine of the half turn `asin(1 / e)` of a hyperbola of excess
+/// speed `v` at periapsis `rp` (Curtis 2010 sec. 8.9: `sin = 1 / e`, `e =
+/// 1 + rp v^2 / mu`).
+fn half_turn_sin_cos(rp: f64, v: f64, mu: f64) -> (f64, f64) {
+    let sin = mu / (mu + rp * v * v);
+    (sin, (1.0 - sin * sin).max(0.0).sqrt())
+}
+
 /// The best completion from each arc of leg `k`, given those of leg
 /// `k + 1` (`after`): the flyby at the end of leg `k` plus the best
 /// completion of an arc leaving then.
@@ -246,16 +274,25 @@ fn link(plan: &Plan, k: usize, arcs: Vec<Arc>, after: &Stage, stats: &mut GridSt
     let (lo, hi) = plan.date_range(k + 1);
     let n_dates = (hi - lo + 1) as usize;
     // Outgoing arcs with a feasible completion, grouped by departure date
-    // and sorted by speed (ties by index, for a fixed order).
-    let mut outgoing: Vec<Vec<(f64, u32)>> = vec![Vec::new(); n_dates];
+    // and sorted by their cost to go (ties by index, for a fixed order).
+    let mut outgoing: Vec<Vec<Out>> = vec![Vec::new(); n_dates];
     for (i, a) in after.arcs.iter().enumerate() {
         if after.cost[i].is_finite() {
-            outgoing[(a.dep - lo) as usize].push((norm(&a.vd), i as u32));
+            let v = a.vd();
+            let (sin, cos) = half_turn_sin_cos(rmin, v.norm(), mu);
+            outgoing[(a.dep - lo) as usize].push(Out {
+                cost: after.cost[i],
+                speed: v.norm(),
+                sin,
+                cos,
+                v,
+                index: i as u32,
+            });
         }
     }
     outgoing
         .par_iter_mut()
-        .for_each(|v| v.sort_by(|x, y| x.0.total_cmp(&y.0).then(x.1.cmp(&y.1))));
+        .for_each(|v| v.sort_by(|x, y| x.cost.total_cmp(&y.cost).then(x.index.cmp(&y.index))));
     // Incoming arcs (this leg) grouped by arrival date, in index order.
     let mut incoming: Vec<Vec<u32>> = vec![Vec::new(); n_dates];
     for (i, a) in arcs.iter().enumerate() {
@@ -274,21 +311,36 @@ fn link(plan: &Plan, k: usize, arcs: Vec<Arc>, after: &Stage, stats: &mut GridSt
                     let vin = arcs[i as usize].va();
                     let a = vin.norm();
                     let (wlo, whi) = matching_speed_window(a, rmin, mu, dmax);
-                    let start = outs.partition_point(|x| x.0 < wlo);
+                    let (sin_a, cos_a) = half_turn_sin_cos(rmin, a, mu);
                     let mut best = (f64::INFINITY, u32::MAX);
-                    for &(b, j) in outs[start..].iter().take_while(|x| x.0 <= whi) {
-                        let c_on = after.cost[j as usize];
-                        if c_on + periapsis_dv_km_s(rmin, a, b, mu) >= best.0 {
+                    for out in outs {
+                        // Impulses are never negative: no later (dearer)
+                        // completion can win.
+                        if out.cost >= best.0 {
+                            break;
+                        }
+                        let b = out.speed;
+                        if b < wlo
+                            || b > whi
+                            || out.cost + periapsis_dv_km_s(rmin, a, b, mu) >= best.0
+                        {
                             continue;
                         }
                         counts[1] += 1;
-                        let vout = after.arcs[j as usize].vd();
-                        if let Some(dv) = quick_dv_km_s(&vin, &vout, mu, rmin) {
+                        // The turn must not exceed what the two hyperbolas
+                        // give at the minimum periapsis: cos(turn) >=
+                        // cos(half_a + half_b), with a rounding margin (the
+                        // exact test follows in `quick_dv_km_s`).
+                        let reach_cos = cos_a * out.cos - sin_a * out.sin;
+                        if vin.dot(&out.v) < a * b * (reach_cos - 1e-12) {
+                            continue;
+                        }
+                        if let Some(dv) = quick_dv_km_s(&vin, &out.v, mu, rmin) {
                             if dv <= dmax {
                                 counts[2] += 1;
-                                let c = c_on + dv;
-                                if c < best.0 || (c <= best.0 && j < best.1) {
-                                    best = (c, j);
+                                let c = out.cost + dv;
+                                if c < best.0 || (c <= best.0 && out.index < best.1) {
+                                    best = (c, out.index);
                                 }
                             }
                         }
