@@ -6,6 +6,9 @@
 //!   over 2030.
 //! - `flyby/evej/2y`: Earth-Moon barycentre -> Venus -> Earth-Moon
 //!   barycentre -> Jupiter, departures over 2030-2031.
+//! - `flyby/evej-wide/2y`: the same with the Venus -> EMB leg at 150-700
+//!   days and up to one revolution, C3 at most 40 km^2/s^2, flyby
+//!   impulses up to 2 km/s.
 //!
 //! Target (issue 15): each under 30 s on 2 cores.
 //!
@@ -66,6 +69,22 @@ fn main() {
             let found = search_sequence(&system, black_box(&evej)).expect("valid spec");
             assert!(!found.trajectories.is_empty());
             assert!(found.stats.pairs_examined < found.stats.pairs_possible);
+            black_box(found)
+        })
+    });
+    // Venus-Earth gravity-assist routes to Jupiter need a longer Venus ->
+    // EMB leg, here with up to one revolution.
+    let mut wide = evej.clone();
+    wide.tof_days = vec![None, Some((150.0, 700.0)), None];
+    wide.max_revs = vec![0, 1, 0];
+    wide.c3_max_km2_s2 = Some(40.0);
+    wide.max_flyby_dv_km_s = 2.0;
+    c.bench_function("flyby/evej-wide/2y", |b| {
+        b.iter(|| {
+            let found = search_sequence(&system, black_box(&wide)).expect("valid spec");
+            let best = &found.trajectories[0];
+            assert!(best.c3_km2_s2 <= 40.0 + 1e-9);
+            assert!(best.flybys.iter().all(|f| f.altitude_km >= 300.0));
             black_box(found)
         })
     });

@@ -2,7 +2,8 @@
 //! Table 1 test fixture (real planets' mean elements, test data only):
 //! Earth-Moon barycentre -> Venus -> Mars over one year of departures and
 //! Earth-Moon barycentre -> Venus -> Earth-Moon barycentre -> Jupiter over
-//! two years, both at 1-day steps, with the grid stage's pruning counts.
+//! two years, both at 1-day steps, with the grid stage's pruning counts;
+//! then the second with a wider Venus -> EMB leg.
 //!
 //! Run: `cargo run --release --example flyby_timing [THREADS]`
 //! (THREADS: rayon threads, default all cores). The criterion benchmark
@@ -44,6 +45,20 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
         1.0,
     );
     run(&system, "EMB-Venus-EMB-Jupiter, 2 years", &evej)?;
+
+    // The same with the Venus -> EMB leg widened to 150-700 days and one
+    // revolution allowed on it, where Venus-Earth gravity-assist routes to
+    // Jupiter with a low launch C3 lie.
+    let mut wide = evej.clone();
+    wide.tof_days = vec![None, Some((150.0, 700.0)), None];
+    wide.max_revs = vec![0, 1, 0];
+    wide.c3_max_km2_s2 = Some(40.0);
+    wide.max_flyby_dv_km_s = 2.0;
+    run(
+        &system,
+        "EMB-Venus-EMB-Jupiter, 2 years, Venus-EMB 150-700 days with up to 1 revolution, C3 <= 40, flyby impulse <= 2 km/s",
+        &wide,
+    )?;
     Ok(())
 }
 
