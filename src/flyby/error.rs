@@ -128,6 +128,12 @@ pub enum FlybyError {
         /// The limit.
         limit: u64,
     },
+    /// A survey would search more sequences than the guard allows.
+    #[error("the survey would search more than {limit} sequences; use fewer candidate bodies or fewer flybys")]
+    TooManySequences {
+        /// The limit.
+        limit: u64,
+    },
     /// A survey was asked for without candidate flyby bodies while
     /// flybys were requested.
     #[error("a survey with up to {max_flybys} flybys needs at least one candidate flyby body")]

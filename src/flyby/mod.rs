@@ -36,5 +36,5 @@ pub use spec::{
     default_tof_days, LaunchTerm, SequenceSpec, DEFAULT_MAX_FLYBY_DV_KM_S, DEFAULT_MIN_ALTITUDE_KM,
     MAX_ARCS, TOF_HOHMANN_RANGE, TOF_RETURN_RANGE,
 };
-pub use survey::{sequences, survey, SurveyRow, SurveySpec, SurveyTable};
+pub use survey::{sequences, survey, SurveyRow, SurveySpec, SurveyTable, MAX_SEQUENCES};
 pub use trajectory::Trajectory;

@@ -317,7 +317,13 @@ pub(crate) fn resolve(system: &System, spec: &SequenceSpec) -> Result<Plan, Flyb
         }
         let q_min = (lo / step - 1e-9).ceil();
         let q_max = (hi / step + 1e-9).floor();
-        if q_max < q_min || q_max > f64::from(u32::MAX / 4) {
+        if q_max > f64::from(u32::MAX / 4) {
+            return Err(FlybyError::GridTooLarge {
+                arcs: (dates * (q_max - q_min + 1.0)).min(u64::MAX as f64) as u64,
+                limit: MAX_ARCS,
+            });
+        }
+        if q_max < q_min {
             return Err(FlybyError::TofNoStep {
                 leg: k + 1,
                 min_days: lo,

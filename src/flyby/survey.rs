@@ -8,6 +8,10 @@ use super::spec::{SequenceSpec, DEFAULT_MIN_ALTITUDE_KM};
 use super::trajectory::Trajectory;
 use crate::ephemeris::System;
 
+/// Most sequences one survey searches (a guard against a request that
+/// would run for days: each sequence is a full search).
+pub const MAX_SEQUENCES: u64 = 10_000;
+
 /// A survey: departure and arrival bodies, candidate flyby bodies, and a
 /// template for every search.
 #[derive(Debug, Clone, PartialEq)]
@@ -103,7 +107,8 @@ pub fn sequences(from: usize, to: usize, via_any: &[usize], max_flybys: usize) -
 ///
 /// # Errors
 /// [`FlybyError::NoCandidates`] when flybys are asked for without
-/// candidate bodies; [`FlybyError::Count`] when the altitude list does not
+/// candidate bodies; [`FlybyError::TooManySequences`] past
+/// [`MAX_SEQUENCES`]; [`FlybyError::Count`] when the altitude list does not
 /// match the candidates; [`FlybyError::UnknownBody`] for an index outside
 /// the system; [`FlybyError::MissingBodyValue`] for a candidate without GM
 /// or radius. Errors of one sequence's search (a grid too large) are kept
@@ -112,6 +117,18 @@ pub fn survey(system: &System, spec: &SurveySpec) -> Result<SurveyTable, FlybyEr
     if spec.max_flybys > 0 && spec.via_any.is_empty() {
         return Err(FlybyError::NoCandidates {
             max_flybys: spec.max_flybys,
+        });
+    }
+    // An upper bound on the count, sum of n^k, before any allocation.
+    let mut count = 0u64;
+    let mut level = 1u64;
+    for _ in 0..=spec.max_flybys.min(64) {
+        count = count.saturating_add(level);
+        level = level.saturating_mul(spec.via_any.len() as u64);
+    }
+    if count > MAX_SEQUENCES || spec.max_flybys > 64 && !spec.via_any.is_empty() {
+        return Err(FlybyError::TooManySequences {
+            limit: MAX_SEQUENCES,
         });
     }
     let n = system.bodies.len();

@@ -398,6 +398,17 @@ fn survey_ranks_sequences() {
     ));
     bad.max_flybys = 0;
     assert_eq!(survey(&system, &bad).expect("direct only").rows.len(), 1);
+    let mut huge = spec.clone();
+    huge.max_flybys = 40;
+    assert!(matches!(
+        survey(&system, &huge),
+        Err(FlybyError::TooManySequences { .. })
+    ));
+    huge.max_flybys = usize::MAX;
+    assert!(matches!(
+        survey(&system, &huge),
+        Err(FlybyError::TooManySequences { .. })
+    ));
 }
 
 /// With a parking orbit and a capture orbit, the launch and arrival terms
