@@ -128,6 +128,10 @@ pub enum FlybyError {
         /// The limit.
         limit: u64,
     },
+    /// The parking or capture orbit does not fit the departure or arrival
+    /// body (missing GM or radius, bad altitude or eccentricity).
+    #[error(transparent)]
+    Endpoints(#[from] crate::transfer::EndpointError),
     /// A survey would search more sequences than the guard allows.
     #[error("the survey would search more than {limit} sequences; use fewer candidate bodies or fewer flybys")]
     TooManySequences {

@@ -383,20 +383,7 @@ pub(crate) fn resolve(system: &System, spec: &SequenceSpec) -> Result<Plan, Flyb
         &system.bodies[to],
         spec.park_altitude_km,
         spec.capture,
-    )
-    .map_err(|e| match e {
-        crate::transfer::EndpointError::MissingBodyValue { body, key, .. } => {
-            FlybyError::MissingBodyValue { body, key }
-        }
-        crate::transfer::EndpointError::Altitude { value_km } => FlybyError::Limit {
-            what: "the parking or capture orbit altitude (km)",
-            value: value_km,
-        },
-        crate::transfer::EndpointError::Eccentricity { value } => FlybyError::Limit {
-            what: "the capture orbit eccentricity (in [0, 1))",
-            value,
-        },
-    })?;
+    )?;
     let first_ends = Endpoints {
         arrive_frame: EquatorFrame::system(),
         capture: None,

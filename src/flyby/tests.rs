@@ -333,7 +333,7 @@ fn bad_specs_are_errors_not_panics() {
     ));
     assert!(matches!(
         check(&|s| s.capture = Some((300.0, 1.5))),
-        FlybyError::Limit { .. }
+        FlybyError::Endpoints(_)
     ));
     assert!(matches!(
         check(&|s| s.step_days = 1e-6),
