@@ -123,6 +123,11 @@ fn check_physical(system: &System, spec: &SequenceSpec) -> SearchResult {
                 "misses by {} km",
                 (flown.r_km - s2.r_km).norm()
             );
+            assert!(
+                (flown.v_km_s - end_v).norm() < 1e-6,
+                "arrival velocity off by {} km/s",
+                (flown.v_km_s - end_v).norm()
+            );
         }
         for (j, f) in t.flybys.iter().enumerate() {
             let body = &system.bodies[t.bodies[j + 1]];
