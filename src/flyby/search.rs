@@ -52,20 +52,32 @@ pub struct SearchResult {
 /// [`SequenceSpec`]), naming the value at fault.
 ///
 /// # Example
+/// Teodra -> Vell -> Kesh in the invented demo system, departures from
+/// July 2033 to February 2034 every 5 days:
 /// ```
 /// use synodic::ephemeris::System;
-/// use synodic::flyby::{search_sequence, SequenceSpec};
+/// use synodic::flyby::{search_sequence, SequenceSpec, Verdict};
 /// use synodic::time::Epoch;
 ///
 /// let system = System::demo();
-/// let b: Vec<usize> = system.bodies.iter().take(2).enumerate().map(|(i, _)| i).collect();
-/// let first = Epoch::parse("2032-01-01")?;
-/// let mut spec = SequenceSpec::new(b, first, first.plus_days(200.0), 10.0);
-/// spec.refine_count = 1;
+/// let bodies = vec![system.find("Teodra")?, system.find("Vell")?, system.find("Kesh")?];
+/// let first = Epoch::parse("2033-07-01")?;
+/// let mut spec = SequenceSpec::new(bodies, first, first.plus_days(240.0), 5.0);
+/// spec.c3_max_km2_s2 = Some(30.0); // km^2/s^2
 /// let found = search_sequence(&system, &spec)?;
-/// if let Some(best) = found.trajectories.first() {
-///     assert!(best.dv_total_km_s <= best.grid_total_km_s + 1e-9); // km/s
-/// }
+/// let best = &found.trajectories[0];
+/// let vell = &best.flybys[0];
+/// assert!(vell.verdict != Verdict::BelowMinimumAltitude);
+/// assert!(vell.altitude_km >= 300.0); // the default minimum, km
+/// assert!(best.dv_total_km_s <= best.grid_total_km_s); // refined, km/s
+/// println!(
+///     "{}: C3 {:.1}, Vell flyby turn {:.1} deg at {:.0} km, impulse {:.3} km/s",
+///     best.encounters[0].date_tdb(),
+///     best.c3_km2_s2,
+///     vell.turn_deg,
+///     vell.altitude_km,
+///     vell.dv_km_s
+/// );
 /// # Ok::<(), Box<dyn std::error::Error>>(())
 /// ```
 pub fn search_sequence(system: &System, spec: &SequenceSpec) -> Result<SearchResult, FlybyError> {
