@@ -55,6 +55,7 @@
 //! | [`ephemeris`] | mean-element bodies, system files, Kepler's equation, celestial and equator frames | Standish, *Keplerian Elements for Approximate Positions of the Major Planets*; IAU working group node convention |
 //! | [`lambert`] | Lambert's two-point boundary-value problem | Izzo (2015) |
 //! | [`export`] | atomic file writing | temp file, then rename |
+//! | [`flyby`] | flyby model, gravity-assist sequence search and survey | patched conics (Curtis 2010 sec. 8.9), dynamic programming on a date grid, Nelder & Mead (1965) |
 //! | [`study`] | study files: a whole run in one TOML file | serde + toml |
 //! | [`sweep`] | the departure x arrival grid, in parallel | rayon over departure rows |
 //! | [`transfer`] | one transfer between two bodies: C3, DLA, RLA, v-infinity, delta-v | patched conics |
@@ -77,6 +78,7 @@ pub mod chart;
 pub mod ephemeris;
 pub mod error;
 pub mod export;
+pub mod flyby;
 pub mod lambert;
 pub mod opportunity;
 pub mod orbit;
