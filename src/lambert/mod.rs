@@ -52,6 +52,7 @@
 use nalgebra::Vector3;
 use std::f64::consts::{PI, TAU};
 
+pub mod cases;
 mod izzo;
 #[cfg(test)]
 mod tests;
