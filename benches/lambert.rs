@@ -5,6 +5,10 @@
 //! 0.5-5 au, any transfer angle, planes inclined 0-30 deg, time of flight
 //! 0.2-3 Hohmann times) and report **ns per solve**:
 //! - `lambert/zero_rev`: `solve_zero_rev`, one problem at a time;
+//! - `lambert/batch`: `solve_zero_rev_batch` on the whole set, on the
+//!   widest lanes this CPU has, and `lambert/batch/<lanes>` on each lane
+//!   set it has (`portable`, `sse2`, `avx2`, `avx512`): ns per solve, the
+//!   same results as `lambert/zero_rev` bit for bit (asserted);
 //! - `lambert/multi_rev`: `solve_revs` for M = 1 or 2, both branches
 //!   (its own set with 6-12 Hohmann times of flight), ns per call.
 //!
@@ -19,16 +23,22 @@
 //! quick check that every benchmark runs and asserts:
 //! `cargo bench --bench lambert -- --test`.
 //!
-//! Instruction counts: with `SYNODIC_PROFILE=zero_rev` (or `multi_rev`)
-//! the binary skips criterion and solves the set `SYNODIC_PROFILE_ROUNDS`
-//! times (default 10) in a function named `profile_loop`, for
-//! `valgrind --tool=callgrind --toggle-collect='*profile_loop*'`.
+//! Instruction counts: with `SYNODIC_PROFILE=zero_rev` (or `batch`,
+//! `multi_rev`) the binary skips criterion and solves the set
+//! `SYNODIC_PROFILE_ROUNDS` times (default 10) in a function named
+//! `profile_loop`, for
+//! `valgrind --tool=callgrind --toggle-collect='*profile_loop*'`
+//! (valgrind runs no AVX-512 code; its CPU reports none, so `batch` runs
+//! on AVX2 there).
 
 use criterion::Criterion;
 use std::hint::black_box;
 use std::time::{Duration, Instant};
 use synodic::lambert::cases::{Cases, BENCH_SEED};
-use synodic::lambert::{solve_revs, solve_zero_rev, LambertProblem, LambertSolution};
+use synodic::lambert::{
+    solve_revs, solve_zero_rev, solve_zero_rev_batch, solve_zero_rev_batch_on, LambertError,
+    LambertProblem, LambertSolution, Lanes,
+};
 use synodic::orbit::{propagate, State};
 
 const N_PROBLEMS: usize = 4096;
@@ -92,16 +102,27 @@ fn checksum<'a>(sols: impl Iterator<Item = &'a LambertSolution>) -> u64 {
     h
 }
 
-/// Times `block` (which solves `n` problems and returns their checksum)
-/// and reports the time per problem; asserts the checksum every time.
-fn per_solve(c: &mut Criterion, id: &str, n: usize, expected: u64, mut block: impl FnMut() -> u64) {
+/// Times `solve` (which solves `n` problems) and reports the time per
+/// problem; after each timed call, untimed, `check` must return the
+/// expected checksum.
+fn per_solve<S>(
+    c: &mut Criterion,
+    id: &str,
+    n: usize,
+    expected: u64,
+    state: &mut S,
+    mut solve: impl FnMut(&mut S),
+    check: impl Fn(&S) -> u64,
+) {
     c.bench_function(id, |b| {
         b.iter_custom(|iters| {
-            let start = Instant::now();
+            let mut total = Duration::ZERO;
             for _ in 0..iters {
-                assert_eq!(block(), expected, "{id}: results changed");
+                let start = Instant::now();
+                solve(state);
+                total += start.elapsed();
+                assert_eq!(check(state), expected, "{id}: results changed");
             }
-            let total = start.elapsed();
             Duration::from_secs_f64(total.as_secs_f64() / n as f64)
         })
     });
@@ -113,6 +134,12 @@ fn per_solve(c: &mut Criterion, id: &str, n: usize, expected: u64, mut block: im
 fn profile_loop(set: &[LambertProblem], out: &mut Vec<LambertSolution>) {
     out.clear();
     out.extend(set.iter().map(|p| solve_one(black_box(p))));
+}
+
+/// The batch solver on `set` (the instruction-count harness).
+#[inline(never)]
+fn profile_loop_batch(set: &[LambertProblem], out: &mut [Result<LambertSolution, LambertError>]) {
+    solve_zero_rev_batch(set, out).expect("matching lengths");
 }
 
 #[inline(never)]
@@ -142,12 +169,29 @@ fn profile(which: &str) {
             }
             println!("zero_rev: {} solves, checksum {sum:x}", rounds * set.len());
         }
+        "batch" => {
+            let set = zero_rev_set();
+            let mut out = vec![Err(LambertError::ZeroReferenceNormal); set.len()];
+            let mut sum = 0u64;
+            for _ in 0..rounds {
+                profile_loop_batch(&set, &mut out);
+                let sols: Vec<_> = out.iter().map(|r| *r.as_ref().expect("solves")).collect();
+                sum = sum.wrapping_add(checksum(sols.iter()));
+            }
+            println!(
+                "batch ({:?}): {} solves, checksum {sum:x}",
+                Lanes::detect(),
+                rounds * set.len()
+            );
+        }
         "multi_rev" => {
             let set = multi_rev_set();
             let n = profile_loop_multi(&set, rounds);
             println!("multi_rev: {} calls, {n} solutions", rounds * set.len());
         }
-        other => panic!("SYNODIC_PROFILE: unknown benchmark {other:?} (zero_rev, multi_rev)"),
+        other => {
+            panic!("SYNODIC_PROFILE: unknown benchmark {other:?} (zero_rev, batch, multi_rev)")
+        }
     }
 }
 
@@ -172,12 +216,49 @@ fn main() {
         zero.len()
     );
     let expected = checksum(reference.iter());
-    let mut out = Vec::with_capacity(zero.len());
-    per_solve(&mut c, "lambert/zero_rev", zero.len(), expected, || {
-        out.clear();
-        out.extend(zero.iter().map(|p| solve_one(black_box(p))));
-        checksum(out.iter())
-    });
+    let mut sols = Vec::with_capacity(zero.len());
+    per_solve(
+        &mut c,
+        "lambert/zero_rev",
+        zero.len(),
+        expected,
+        &mut sols,
+        |out| {
+            out.clear();
+            out.extend(zero.iter().map(|p| solve_one(black_box(p))));
+        },
+        |out| checksum(out.iter()),
+    );
+
+    // Batches: the same set, the same bits.
+    let mut results = vec![Err(LambertError::ZeroReferenceNormal); zero.len()];
+    let batch_sum = |out: &Vec<Result<LambertSolution, LambertError>>| {
+        checksum(
+            out.iter()
+                .map(|r| r.as_ref().expect("every problem solves")),
+        )
+    };
+    per_solve(
+        &mut c,
+        "lambert/batch",
+        zero.len(),
+        expected,
+        &mut results,
+        |out| solve_zero_rev_batch(black_box(&zero), out).expect("matching lengths"),
+        batch_sum,
+    );
+    for lanes in Lanes::available() {
+        let id = format!("lambert/batch/{}", format!("{lanes:?}").to_lowercase());
+        per_solve(
+            &mut c,
+            &id,
+            zero.len(),
+            expected,
+            &mut results,
+            |out| solve_zero_rev_batch_on(lanes, black_box(&zero), out).expect("available"),
+            batch_sum,
+        );
+    }
 
     let multi = multi_rev_set();
     let (mut n, mut it) = (0u32, 0u32);
@@ -197,14 +278,21 @@ fn main() {
         f64::from(it) / f64::from(n)
     );
     let expected = checksum(multi_ref.iter());
-    let mut out = Vec::with_capacity(multi_ref.len());
-    per_solve(&mut c, "lambert/multi_rev", multi.len(), expected, || {
-        out.clear();
-        for (p, m) in &multi {
-            out.extend(solve_revs(black_box(p), *m).expect("multi-rev benchmark"));
-        }
-        checksum(out.iter())
-    });
+    let mut sols = Vec::with_capacity(multi_ref.len());
+    per_solve(
+        &mut c,
+        "lambert/multi_rev",
+        multi.len(),
+        expected,
+        &mut sols,
+        |out| {
+            out.clear();
+            for (p, m) in &multi {
+                out.extend(solve_revs(black_box(p), *m).expect("multi-rev benchmark"));
+            }
+        },
+        |out| checksum(out.iter()),
+    );
 
     c.final_summary();
 }

@@ -49,6 +49,7 @@
 //! time unit, and `mu` in length^3/time^2 (synodic uses km, s, km^3/s^2);
 //! velocities come out in length/time.
 
+mod batch;
 pub mod cases;
 mod fast;
 mod izzo;
@@ -59,6 +60,7 @@ mod solver;
 mod tests;
 mod types;
 
+pub use batch::{solve_zero_rev_batch, solve_zero_rev_batch_on, BatchError, Lanes};
 pub use solver::{solve, solve_each_rev, solve_revs, solve_zero_rev};
 pub use types::{
     Branch, Direction, LambertError, LambertProblem, LambertSolution, ANGLE_TOLERANCE_RAD,

@@ -4,6 +4,7 @@
 //! other check is a physical invariant verified with the independent
 //! universal-variable propagator of [`crate::orbit`].
 
+use super::cases::{Cases, BENCH_SEED};
 use super::solver::Geometry;
 use super::*;
 use crate::orbit::{propagate, State};
@@ -302,31 +303,25 @@ fn exhaustive_angle_tof_sweep() {
 }
 
 /// Tightening the Householder tolerance to 1e-14 changes the velocities
-/// by less than 1e-12 relative: the default stopping rule is sufficient.
-/// Source: convergence property of Householder's method (order >= 3), the
-/// brief's 1e-12 accuracy target.
+/// by less than 1e-12 relative (of each velocity's length): the default
+/// stopping rule is sufficient. 20,000 problems of the shared case set,
+/// against the careful path with a 1e-14 tolerance.
+/// Source: convergence property of Householder's method (order 4 with
+/// third derivatives), the documented 1e-12 accuracy target.
 #[test]
 fn tolerance_is_sufficient() {
-    let mut rng = 0x9e37_79b9_7f4a_7c15_u64;
-    let mut next = move || {
-        rng ^= rng << 13;
-        rng ^= rng >> 7;
-        rng ^= rng << 17;
-        (rng >> 11) as f64 / (1u64 << 53) as f64
-    };
-    for _ in 0..3000 {
-        let r1 = AU_KM * (0.5 + 4.5 * next()) * v3(1.0, 0.0, 0.0);
-        let a = TAU * next();
-        let r2 = AU_KM * (0.5 + 4.5 * next()) * v3(a.cos(), a.sin(), 0.3 * (next() - 0.5));
-        let tof = (0.05 + 5.0 * next()) * hohmann_time(r1.norm(), r2.norm(), MU_SUN);
-        let Ok(g) = Geometry::new(&r1, &r2, tof, MU_SUN, Direction::Prograde, None) else {
-            continue;
-        };
-        let loose = solve_zero_rev(&r1, &r2, tof, MU_SUN, Direction::Prograde, None).unwrap();
-        let tight = g.zero_rev(1e-14).unwrap();
-        // Tolerance: the brief's 1e-12 relative velocity accuracy.
-        assert_relative_eq!(loose.v1, tight.v1, max_relative = 1e-12);
-        assert_relative_eq!(loose.v2, tight.v2, max_relative = 1e-12);
+    for c in Cases::take(BENCH_SEED, 20_000) {
+        let p = c.problem;
+        let loose = solve_zero_rev(&p.r1, &p.r2, p.tof, p.mu, p.direction, None).unwrap();
+        let tight = Geometry::new(&p.r1, &p.r2, p.tof, p.mu, p.direction, None)
+            .unwrap()
+            .zero_rev(1e-14)
+            .unwrap();
+        // Tolerance: the documented 1e-12 relative velocity accuracy
+        // (about 7e-14 is observed, the rounding floor of the geometry).
+        let rel = |a: Vector3<f64>, b: Vector3<f64>| (a - b).norm() / b.norm();
+        assert!(rel(loose.v1, tight.v1) < 1e-12, "{p:?}");
+        assert!(rel(loose.v2, tight.v2) < 1e-12, "{p:?}");
     }
 }
 

@@ -55,15 +55,12 @@ pub(crate) trait Real:
     /// One boolean per lane.
     type Mask: Mask;
     /// Number of lanes.
-    #[cfg_attr(not(test), allow(dead_code))]
     const LANES: usize;
     /// Every lane `v`.
     fn splat(v: f64) -> Self;
     /// Lanes from `v[..LANES]`.
-    #[cfg_attr(not(test), allow(dead_code))]
     fn load(v: &[f64]) -> Self;
     /// Lanes into `out[..LANES]`.
-    #[cfg_attr(not(test), allow(dead_code))]
     fn store(self, out: &mut [f64]);
     /// Correctly rounded square root.
     fn sqrt(self) -> Self;
@@ -76,7 +73,6 @@ pub(crate) trait Real:
     /// Where `m`: `a`, else `b`.
     fn select(m: Self::Mask, a: Self, b: Self) -> Self;
     /// Booleans into `out[..LANES]`.
-    #[allow(dead_code)]
     fn mask_store(m: Self::Mask, out: &mut [bool]);
     /// Nearest integer, ties to even; exact for `|self| < 2^51` (a zero
     /// result may lose its sign).
@@ -92,7 +88,9 @@ pub(crate) trait Real:
     /// true masks in each lane.
     #[inline(always)]
     fn pick5x4(r: [Self::Mask; 4], v: &[[f64; 4]; 5]) -> [Self; 4] {
-        std::array::from_fn(|j| {
+        // Written out: `std::array::from_fn` is not always inlined, and
+        // lane code must inline into its #[target_feature] caller.
+        let column = |j: usize| {
             let s = |i: usize| Self::splat(v[i][j]);
             Self::select(
                 r[3],
@@ -103,7 +101,8 @@ pub(crate) trait Real:
                     Self::select(r[1], s(2), Self::select(r[0], s(1), s(0))),
                 ),
             )
-        })
+        };
+        [column(0), column(1), column(2), column(3)]
     }
     /// Neither NaN nor infinite.
     #[inline(always)]
@@ -139,7 +138,12 @@ impl<R: Real> Blend<R> for R {
 impl<R: Real, const N: usize> Blend<R> for [R; N] {
     #[inline(always)]
     fn blend(m: R::Mask, a: Self, b: Self) -> Self {
-        std::array::from_fn(|i| R::select(m, a[i], b[i]))
+        // A plain loop: `std::array::from_fn` is not always inlined.
+        let mut out = b;
+        for (o, &x) in out.iter_mut().zip(&a) {
+            *o = R::select(m, x, *o);
+        }
+        out
     }
 }
 
@@ -248,18 +252,15 @@ impl Real for f64 {
 }
 
 /// A portable pack of lanes: plain arrays, lane by lane in `f64`.
-#[cfg(test)]
 #[derive(Debug, Clone, Copy)]
 pub(crate) struct Portable<const N: usize>([f64; N]);
 
 /// The mask of [`Portable`].
-#[cfg(test)]
 #[derive(Debug, Clone, Copy)]
 pub(crate) struct PortableMask<const N: usize>([bool; N]);
 
 macro_rules! portable_binop {
     ($tr:ident, $f:ident, $op:tt) => {
-        #[cfg(test)]
         impl<const N: usize> $tr for Portable<N> {
             type Output = Self;
             #[inline(always)]
@@ -274,7 +275,6 @@ portable_binop!(Sub, sub, -);
 portable_binop!(Mul, mul, *);
 portable_binop!(Div, div, /);
 
-#[cfg(test)]
 impl<const N: usize> Neg for Portable<N> {
     type Output = Self;
     #[inline(always)]
@@ -283,7 +283,6 @@ impl<const N: usize> Neg for Portable<N> {
     }
 }
 
-#[cfg(test)]
 impl<const N: usize> BitAnd for PortableMask<N> {
     type Output = Self;
     #[inline(always)]
@@ -291,7 +290,6 @@ impl<const N: usize> BitAnd for PortableMask<N> {
         PortableMask(std::array::from_fn(|i| self.0[i] & o.0[i]))
     }
 }
-#[cfg(test)]
 impl<const N: usize> BitOr for PortableMask<N> {
     type Output = Self;
     #[inline(always)]
@@ -299,7 +297,6 @@ impl<const N: usize> BitOr for PortableMask<N> {
         PortableMask(std::array::from_fn(|i| self.0[i] | o.0[i]))
     }
 }
-#[cfg(test)]
 impl<const N: usize> Not for PortableMask<N> {
     type Output = Self;
     #[inline(always)]
@@ -307,7 +304,6 @@ impl<const N: usize> Not for PortableMask<N> {
         PortableMask(self.0.map(|b| !b))
     }
 }
-#[cfg(test)]
 impl<const N: usize> Mask for PortableMask<N> {
     #[inline(always)]
     fn all(self) -> bool {
@@ -319,7 +315,6 @@ impl<const N: usize> Mask for PortableMask<N> {
     }
 }
 
-#[cfg(test)]
 impl<const N: usize> Real for Portable<N> {
     type Mask = PortableMask<N>;
     const LANES: usize = N;
@@ -375,6 +370,12 @@ impl<const N: usize> Real for Portable<N> {
         Portable(k.0.map(pow2i_f64))
     }
 }
+
+#[cfg(target_arch = "x86_64")]
+pub(crate) use x86::{F64x2, F64x4, F64x8};
+
+#[cfg(target_arch = "x86_64")]
+mod x86;
 
 #[cfg(test)]
 mod tests {
