@@ -3,8 +3,10 @@
 //! Given two position vectors, a time of flight and a gravitational
 //! parameter, find the two-body arc (its velocities at both ends) that
 //! connects them. The sweep calls [`solve_zero_rev`] for every cell of a
-//! departure/arrival grid; [`solve`] and [`solve_revs`] add the
-//! multi-revolution solutions.
+//! departure/arrival grid; [`solve_zero_rev_batch`] solves a slice of
+//! problems in SIMD lanes with the same results bit for bit; [`solve`]
+//! and [`solve_revs`] add the multi-revolution solutions; [`cases`] is the
+//! seeded problem set the benchmarks and tests share.
 //!
 //! # Method
 //! D. Izzo, "Revisiting Lambert's problem", Celestial Mechanics and
@@ -12,17 +14,30 @@
 //! a single non-dimensional variable `x`, Householder iterations from
 //! analytic initial guesses, and a velocity reconstruction that has no
 //! singularity at 180 degrees. Deviations from the printed algorithm, all
-//! for accuracy or robustness:
+//! for accuracy, robustness or speed:
 //! - `lambda` from half-angle identities: `lambda = sqrt(r1 r2)
 //!   cos(theta/2) / s` with `|cos(theta/2)| = |r1_hat + r2_hat| / 2`,
 //!   instead of `sqrt(1 - c/s)`, which loses about half the digits near
-//!   180 degrees;
-//! - the continuous initial guess `x0 = 2^(ln(T/T0)/ln(T1/T0)) - 1`
-//!   between the anchors `T0 = T(0)` and `T1 = T(1)`;
-//! - every iterate is kept in the domain (`x > -1`, and inside the
-//!   branch's bracket for multiple revolutions) by a bisection safeguard;
+//!   180 degrees; the transfer angle from the same half-angles;
+//! - between the anchors `T0 = T(0)` and `T1 = T(1)` the initial guess is
+//!   the linear interpolation `x0 = (T0 - T)/(T0 - T1)` (the printed
+//!   formula for that range is reported wrong);
+//! - Householder iterations stop at a last correction below `1e-4`
+//!   (relative to `min(1, 1 + x)`): the update is of order four, so the
+//!   root is then at rounding;
+//! - the careful path (below) keeps every iterate in the domain (`x > -1`,
+//!   and inside the branch's bracket for multiple revolutions) by a
+//!   bisection safeguard;
 //! - near the parabola `T(x)` comes from its power series (see
 //!   `izzo.rs`), free of the closed form's cancellation.
+//!
+//! Zero revolutions run first on a fast path written once for one problem
+//! or a pack of SIMD lanes (`fast.rs`); it declines invalid, degenerate
+//! and rare cases to the careful path (`solver.rs`), which reports typed
+//! errors. Every transcendental function in the solver is this crate's
+//! own kernel (`kernels/`), within about one ulp, so results do not
+//! depend on the platform's C library, and scalar and SIMD paths agree
+//! bit for bit.
 //!
 //! # Conventions
 //! - **Direction**: [`Direction::Prograde`] means the transfer's angular

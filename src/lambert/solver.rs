@@ -23,9 +23,9 @@ pub(super) struct Geometry {
     /// Unit tangents (direction of motion) at r1 and r2.
     it1: Vector3<f64>,
     it2: Vector3<f64>,
-    lam: Lambda,
+    pub(super) lam: Lambda,
     /// Non-dimensional time of flight T.
-    t: f64,
+    pub(super) t: f64,
     /// T per unit of dimensional time: sqrt(2 mu / s^3).
     t_per_tof: f64,
     gamma: f64,
@@ -42,7 +42,7 @@ fn finite3(v: &Vector3<f64>) -> bool {
 
 impl Geometry {
     /// The geometry of a [`LambertProblem`] (see [`Geometry::new`]).
-    fn of_problem(p: &LambertProblem) -> Result<Self, LambertError> {
+    pub(super) fn of_problem(p: &LambertProblem) -> Result<Self, LambertError> {
         Geometry::new(
             &p.r1,
             &p.r2,

@@ -26,11 +26,16 @@ pub enum Direction {
 pub enum Branch {
     /// The only solution with zero revolutions.
     Single,
-    /// For `M > 0`: Izzo's left solution, `x < x_min` (the root with the
-    /// smaller `x`, i.e. the larger semi-major axis side nearer
-    /// `x = -1`).
+    /// For `M > 0`: Izzo's left solution, the root of `T(x) = T*` with
+    /// `x < x_min` (the minimum of T). It has the *smaller* semi-major
+    /// axis (`a = s / (2 (1 - x^2))`, and the left root lies nearer
+    /// `x = 0`: in practice `x < 0` with `|x|` below the right root's):
+    /// near `x = -1`, T grows like `(M + 1) pi / (1 - x^2)^(3/2)`, near
+    /// `x = +1` only like `M pi / (1 - x^2)^(3/2)`. Checked on 20,000
+    /// problems by the test `branch_order`.
     Left,
-    /// For `M > 0`: Izzo's right solution, `x > x_min`.
+    /// For `M > 0`: Izzo's right solution, `x > x_min`: the larger
+    /// semi-major axis.
     Right,
 }
 
