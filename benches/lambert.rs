@@ -29,7 +29,9 @@
 //! `profile_loop`, for
 //! `valgrind --tool=callgrind --toggle-collect='*profile_loop*'`
 //! (valgrind runs no AVX-512 code; its CPU reports none, so `batch` runs
-//! on AVX2 there).
+//! on AVX2 there; `SYNODIC_LANES=portable|sse2|avx2|avx512` picks a lane
+//! set). The same mode times solves in CPU time, which a loaded machine
+//! disturbs less than wall time: `perf stat -r 5 -e task-clock`.
 
 use criterion::Criterion;
 use std::hint::black_box;
@@ -138,8 +140,12 @@ fn profile_loop(set: &[LambertProblem], out: &mut Vec<LambertSolution>) {
 
 /// The batch solver on `set` (the instruction-count harness).
 #[inline(never)]
-fn profile_loop_batch(set: &[LambertProblem], out: &mut [Result<LambertSolution, LambertError>]) {
-    solve_zero_rev_batch(set, out).expect("matching lengths");
+fn profile_loop_batch(
+    lanes: Lanes,
+    set: &[LambertProblem],
+    out: &mut [Result<LambertSolution, LambertError>],
+) {
+    solve_zero_rev_batch_on(lanes, set, out).expect("matching lengths, available lanes");
 }
 
 #[inline(never)]
@@ -171,16 +177,22 @@ fn profile(which: &str) {
         }
         "batch" => {
             let set = zero_rev_set();
+            let lanes = match std::env::var("SYNODIC_LANES").as_deref() {
+                Ok("portable") => Lanes::Portable,
+                Ok("sse2") => Lanes::Sse2,
+                Ok("avx2") => Lanes::Avx2,
+                Ok("avx512") => Lanes::Avx512,
+                _ => Lanes::detect(),
+            };
             let mut out = vec![Err(LambertError::ZeroReferenceNormal); set.len()];
             let mut sum = 0u64;
             for _ in 0..rounds {
-                profile_loop_batch(&set, &mut out);
+                profile_loop_batch(lanes, &set, &mut out);
                 let sols: Vec<_> = out.iter().map(|r| *r.as_ref().expect("solves")).collect();
                 sum = sum.wrapping_add(checksum(sols.iter()));
             }
             println!(
-                "batch ({:?}): {} solves, checksum {sum:x}",
-                Lanes::detect(),
+                "batch ({lanes:?}): {} solves, checksum {sum:x}",
                 rounds * set.len()
             );
         }

@@ -125,6 +125,7 @@ fn positive_finite<R: Real>(v: R) -> R::Mask {
 struct Shape<R> {
     l: R,
     l2: R,
+    one_m_l: R,
     one_m_l2: R,
     one_m_l3: R,
     one_m_l5: R,
@@ -147,6 +148,7 @@ impl<R: Real> Shape<R> {
         Shape {
             l,
             l2,
+            one_m_l,
             one_m_l2,
             one_m_l3: one_m_l * (one + l + l2),
             one_m_l5: one_m_l * (one + l + l2 + l3 + l2 * l2),
@@ -174,15 +176,14 @@ fn tof_closed<R: Real>(x: R, z: R, sh: &Shape<R>) -> [R; 4] {
     let one = R::splat(1.0);
     let y = (sh.one_m_l2 + sh.l2 * x * x).sqrt();
     let lx = sh.l * x;
-    // y - lambda x, via (y - lambda x)(y + lambda x) = 1 - lambda^2 where
-    // the difference would cancel.
-    let y_m_lx = choose!(R, R::splat(0.0).lt(lx), sh.one_m_l2 / (y + lx), y - lx);
     let sq = z.abs().sqrt();
-    // 1/z and 1/y from one division.
     // 1/z and 1/y from one division.
     let inv_zy = one / (z * y);
     let inv_z = inv_zy * y;
     let inv_y = inv_zy * z;
+    // y - lambda x, via (y - lambda x)(y + lambda x) = 1 - lambda^2 where
+    // the difference would cancel.
+    let y_m_lx = choose!(R, R::splat(0.0).lt(lx), sh.one_m_l2 / (y + lx), y - lx);
     let sin_psi = sq * y_m_lx;
     let psi = choose!(
         R,
@@ -190,7 +191,6 @@ fn tof_closed<R: Real>(x: R, z: R, sh: &Shape<R>) -> [R; 4] {
         atan2_upper(sin_psi, x * y + sh.l * z),
         asinh_pos(sin_psi)
     );
-    // psi / sqrt|z| = psi sqrt|z| / |z|.
     // psi / sqrt|z| = psi sqrt|z| / |z|.
     let t = (psi * (sq * inv_z.abs()) - x + sh.l * y) * inv_z;
     let inv_y2 = inv_y * inv_y;
@@ -209,12 +209,13 @@ fn tof_series<R: Real>(x: R, z: R, sh: &Shape<R>) -> [R; 4] {
     // Coefficients a_k = 2 c_k (1 - lambda^(2k+3)) / (2k + 3), c_k =
     // binom(2k, k) / 4^k, then Horner for P(z) and its derivatives.
     let mut a = [R::splat(0.0); FAST_SERIES_TERMS];
-    // c_0 = 1 written as 0 z + 1 (the same value: z is finite here) so
-    // that the coefficients depend on this evaluation: otherwise the
-    // compiler hoists them out of the iteration loop, and every problem
-    // pays for the rare series.
-    let mut c = R::splat(0.0) * z + R::splat(1.0);
-    let mut d = sh.one_m_l3;
+    // c_0 = 1 and d_0 = 1 - lambda^3, each plus 0 z (the same values: z
+    // is finite here), so that the coefficients depend on this evaluation:
+    // otherwise the compiler hoists them out of the iteration loop, and
+    // every problem pays for the rare series.
+    let zero_z = R::splat(0.0) * z;
+    let mut c = zero_z + R::splat(1.0);
+    let mut d = sh.one_m_l3 + zero_z;
     for (k, ak) in a.iter_mut().enumerate() {
         let kf = k as f64;
         *ak = two * c * d / R::splat(2.0 * kf + 3.0);
@@ -300,7 +301,7 @@ pub(crate) fn zero_rev<R: Real>(p: &Pack<R>) -> PackSolution<R> {
     let th = atan2_first(half_sin, half_cos);
     let theta = R::select(long, R::splat(std::f64::consts::TAU) - (th + th), th + th);
 
-    let x0 = zero_rev_guess(t_star, sh.l, sh.one_m_l2, sh.one_m_l3, sh.one_m_l5);
+    let x0 = zero_rev_guess(t_star, sh.l, sh.one_m_l, sh.one_m_l3, sh.one_m_l5);
     ok = ok & (-one).lt(x0);
 
     // Householder iterations on (-1, inf), in lock step; a lane leaves

@@ -13,7 +13,7 @@
 
 use std::f64::consts::{LN_2, PI};
 
-use super::kernels::{asinh_pos, atan2_upper, cbrt, exp2, ln};
+use super::kernels::{asinh_pos, atan2_first, atan2_upper, cbrt, exp2, ln};
 use super::lanes::{choose, Real};
 
 /// `lambda` and the differences `1 - lambda^k` that the formulas need,
@@ -23,6 +23,8 @@ pub(crate) struct Lambda {
     /// Izzo's geometry parameter, in (-1, 1); negative for transfer
     /// angles above 180 degrees.
     pub l: f64,
+    /// `1 - lambda`.
+    pub one_m_l: f64,
     /// `1 - lambda^2` (equal to `c / s`).
     pub one_m_l2: f64,
     /// `1 - lambda^3`.
@@ -46,6 +48,7 @@ impl Lambda {
         let l2 = l * l;
         Lambda {
             l,
+            one_m_l,
             one_m_l2,
             one_m_l3: one_m_l * (1.0 + l + l2),
             one_m_l5: one_m_l * (1.0 + l + l2 + l2 * l + l2 * l2),
@@ -317,13 +320,15 @@ fn midpoint(lo: f64, hi: f64) -> f64 {
 /// careful path, so both start from the same bits.
 ///
 /// # Method
-/// `acos lambda = atan2(sqrt(1 - lambda^2), lambda)`, `(T0/T)^(2/3) =
-/// cbrt((T0/T)^2)` with this crate's kernels.
+/// `acos lambda = 2 atan2(sqrt(1 - lambda), sqrt(1 + lambda))`,
+/// `(T0/T)^(2/3) = cbrt((T0/T)^2)` with this crate's kernels.
 #[inline(always)]
-pub(crate) fn zero_rev_guess<R: Real>(t: R, l: R, one_m_l2: R, one_m_l3: R, one_m_l5: R) -> R {
+pub(crate) fn zero_rev_guess<R: Real>(t: R, l: R, one_m_l: R, one_m_l3: R, one_m_l5: R) -> R {
     let one = R::splat(1.0);
-    let sql = one_m_l2.sqrt();
-    let t0 = atan2_upper(sql, l) + l * sql;
+    // acos(lambda) = 2 atan2(sqrt(1 - lambda), sqrt(1 + lambda)): a
+    // first-quadrant angle, and sqrt(1 - lambda^2) as the product.
+    let (a, b) = (one_m_l.sqrt(), (one + l).sqrt());
+    let t0 = R::splat(2.0) * atan2_first(a, b) + l * (a * b);
     let t1 = R::splat(2.0 / 3.0) * one_m_l3;
     choose!(
         R,
@@ -351,7 +356,7 @@ pub(crate) fn zero_rev_guess<R: Real>(t: R, l: R, one_m_l2: R, one_m_l3: R, one_
 /// Householder iterations on `(-1, inf)`.
 #[inline]
 pub(crate) fn zero_rev(t: f64, lam: &Lambda, tol: f64) -> Result<(f64, u32), NoConvergence> {
-    let x0 = zero_rev_guess(t, lam.l, lam.one_m_l2, lam.one_m_l3, lam.one_m_l5);
+    let x0 = zero_rev_guess(t, lam.l, lam.one_m_l, lam.one_m_l3, lam.one_m_l5);
     householder(
         t,
         x0,

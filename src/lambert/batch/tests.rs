@@ -163,3 +163,16 @@ fn length_mismatch_is_an_error() {
     );
     assert!(out.iter().all(|r| r.is_err()));
 }
+
+/// `Lanes::count` tells the lanes each set runs.
+/// Source: the lane types (no published value involved).
+#[test]
+fn lane_counts() {
+    assert_eq!(Lanes::Portable.count(), <Portable<4> as Real>::LANES);
+    #[cfg(target_arch = "x86_64")]
+    {
+        assert_eq!(Lanes::Sse2.count(), <Pair<F64x2> as Real>::LANES);
+        assert_eq!(Lanes::Avx2.count(), <Pair<F64x4> as Real>::LANES);
+        assert_eq!(Lanes::Avx512.count(), <Pair<F64x8> as Real>::LANES);
+    }
+}

@@ -11,8 +11,9 @@
 //! # Method
 //! Polynomial remainders fitted by Chebyshev interpolation in 50-digit
 //! arithmetic (near-minimax; `fit.py` beside this file prints the
-//! coefficients and the interpolation errors), evaluated by Horner's
-//! scheme. Range reductions are the classical ones (e.g. J.-M. Muller,
+//! coefficients and the interpolation errors), evaluated by Estrin's
+//! scheme (short dependency chains) where the argument is small, by
+//! Horner's for `exp2`. Range reductions are the classical ones (e.g. J.-M. Muller,
 //! *Elementary Functions: Algorithms and Implementation*, 3rd ed.,
 //! Birkhauser 2016, ch. 11):
 //! - `atan2` on the upper half-plane: reflection `x < 0 -> pi - angle`;
@@ -128,7 +129,8 @@ const REGIONS: [[f64; 4]; 5] = [
 /// `ln 2` with a 42-bit head: `k LN2.0` is exact for `|k| < 2^11`.
 const LN2: (f64, f64) = (0.6931471805598903, 5.497923018708371e-14);
 
-/// Horner's scheme, coefficients highest degree first.
+/// Horner's scheme, coefficients highest degree first (for `exp2`, whose
+/// argument reaches 1/2: the pairing below would round more there).
 #[inline(always)]
 fn horner<R: Real>(c: &[f64], w: R) -> R {
     let mut p = R::splat(c[0]);
@@ -137,6 +139,38 @@ fn horner<R: Real>(c: &[f64], w: R) -> R {
     }
     p
 }
+
+/// A polynomial in a small `w`, coefficients highest degree first.
+#[inline(always)]
+fn estrin<R: Real>(c: &[f64], w: R) -> R {
+    // Estrin's scheme: adjacent coefficients paired with w, the pairs
+    // with w^2, those with w^4, ... The same operations as Horner's plus
+    // the powers, but a dependency chain of log2(n) steps instead of n, so
+    // the polynomial does not hold up the iteration it sits in.
+    let n = c.len();
+    debug_assert!(n <= MAX_TERMS);
+    let mut t = [R::splat(0.0); MAX_TERMS];
+    for (i, ti) in t.iter_mut().take(n).enumerate() {
+        *ti = R::splat(c[n - 1 - i]);
+    }
+    let (mut len, mut p) = (n, w);
+    while len > 1 {
+        let half = len.div_ceil(2);
+        for j in 0..half {
+            t[j] = if 2 * j + 1 < len {
+                t[2 * j] + t[2 * j + 1] * p
+            } else {
+                t[2 * j]
+            };
+        }
+        len = half;
+        p = p * p;
+    }
+    t[0]
+}
+
+/// Longest polynomial of the kernels.
+const MAX_TERMS: usize = 12;
 
 /// The angle of `(x, y)` for `y >= 0`: `atan2(y, x)` in `[0, pi]`.
 ///
@@ -148,8 +182,7 @@ fn horner<R: Real>(c: &[f64], w: R) -> R {
 /// Radians.
 #[inline(always)]
 pub(crate) fn atan2_upper<R: Real>(y: R, x: R) -> R {
-    let ax = x.abs();
-    let (num, den, head, tail) = atan2_reduce(y, ax);
+    let (num, den, head, tail) = atan2_reduce(y / x.abs());
     // x < 0: pi - (base + atan u) = (pi - base) + atan(-u).
     let neg = x.lt(R::splat(0.0));
     let num = R::select(neg, -num, num);
@@ -163,18 +196,18 @@ pub(crate) fn atan2_upper<R: Real>(y: R, x: R) -> R {
 /// reflection).
 #[inline(always)]
 pub(crate) fn atan2_first<R: Real>(y: R, x: R) -> R {
-    let (num, den, head, tail) = atan2_reduce(y, x);
+    let (num, den, head, tail) = atan2_reduce(y / x);
     atan2_finish(num, den, head, tail)
 }
 
-/// Region of `(ax, y)`, `ax, y >= 0`: numerator and denominator of the
-/// reduced argument and the base angle as head and tail.
+/// Region of the ratio `t = y / |x| >= 0`: numerator and denominator of
+/// the reduced argument and the base angle as head and tail.
 #[inline(always)]
-fn atan2_reduce<R: Real>(y: R, ax: R) -> (R, R, R, R) {
+fn atan2_reduce<R: Real>(t: R) -> (R, R, R, R) {
     let c = |v: f64| R::splat(v);
     // t = inf (x = 0) would give 0 inf in region 4: capped.
-    let t = (y / ax).min(c(1e300));
-    // Region by t = y/ax against 7/16, 11/16, 19/16, 39/16.
+    let t = t.min(c(1e300));
+    // Region by t against 7/16, 11/16, 19/16, 39/16.
     let r = [
         c(0.4375).lt(t),
         c(0.6875).lt(t),
@@ -191,7 +224,7 @@ fn atan2_reduce<R: Real>(y: R, ax: R) -> (R, R, R, R) {
 fn atan2_finish<R: Real>(num: R, den: R, head: R, tail: R) -> R {
     let u = num / den;
     let w = u * u;
-    let p = horner(&ATAN, w);
+    let p = estrin(&ATAN, w);
     head + (u + (u * w * p + tail))
 }
 
@@ -202,7 +235,7 @@ fn atan2_finish<R: Real>(num: R, den: R, head: R, tail: R) -> R {
 fn log_tail<R: Real>(k: R, g: R, extra: R) -> R {
     let s = g / (R::splat(2.0) + g);
     let w = s * s;
-    let r = (w + w) * horner(&ATANH, w);
+    let r = (w + w) * estrin(&ATANH, w);
     let hfsq = R::splat(0.5) * g * g;
     // k ln2_hi + g with its rounding error (Fast2Sum: |g| < ln 2 <= |k
     // ln2_hi| unless k = 0, when the sum is exact).
@@ -286,7 +319,7 @@ pub(crate) fn cbrt<R: Real>(v: R) -> R {
     let a = m * R::pow2i(r);
     let no = R::splat(0.0).lt(R::splat(0.0));
     let [scale, _, _, _] = R::pick5x4([r1, r2, no, no], &CBRT_2_R);
-    let mut y = horner(&CBRT, m) * scale;
+    let mut y = estrin(&CBRT, m) * scale;
     // One Halley step: error -(2/3) e^3 < 1e-17 from e = 1.7e-6.
     let y3 = y * y * y;
     y = y + y * (a - y3) / (y3 + y3 + a);

@@ -371,8 +371,11 @@ impl<const N: usize> Real for Portable<N> {
     }
 }
 
+pub(crate) use pair::Pair;
 #[cfg(target_arch = "x86_64")]
 pub(crate) use x86::{F64x2, F64x4, F64x8};
+
+mod pair;
 
 #[cfg(target_arch = "x86_64")]
 mod x86;
