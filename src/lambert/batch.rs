@@ -1,6 +1,6 @@
 //! Zero-revolution Lambert problems in batches: several problems advanced
 //! together in SIMD lanes, with the same results, bit for bit, as
-//! [`solve_zero_rev`] on each.
+//! [`solve_zero_rev`](super::solve_zero_rev) on each.
 //!
 //! # Method
 //! The fast path of `fast.rs` (Izzo 2015, see [`crate::lambert`]) runs on
@@ -13,7 +13,7 @@
 //! are this crate's kernels (`kernels/mod.rs`), the same code on `f64` and
 //! on packs. Lanes the fast path declines (invalid or degenerate input, a
 //! step away from the root, the iteration cap) and the last problems that
-//! do not fill a pack are solved by [`solve_zero_rev`] itself, so the two
+//! do not fill a pack are solved by [`solve_zero_rev`](super::solve_zero_rev) itself, so the two
 //! agree on every problem whatever the CPU: the test
 //! `batch_equals_scalar_bitwise` checks 100,000 problems on every lane
 //! set this CPU has.
@@ -29,8 +29,8 @@
 
 use super::fast::{self, Pack};
 use super::lanes::{Pair, Portable, Real};
-use super::solver::{fast_to_solution, solve_zero_rev};
-use super::types::{Direction, LambertError, LambertProblem, LambertSolution};
+use super::solver::{fast_to_solution, zero_rev_of};
+use super::types::{LambertError, LambertProblem, LambertSolution};
 
 #[cfg(target_arch = "x86_64")]
 use super::lanes::{F64x2, F64x4, F64x8};
@@ -115,7 +115,7 @@ pub enum BatchError {
 
 /// Solves every problem of `problems` into the same slot of `out`, on the
 /// widest lanes this CPU has: `out[i]` is exactly what
-/// [`solve_zero_rev`] returns for `problems[i]` (`max_revs` is ignored).
+/// [`solve_zero_rev`](super::solve_zero_rev) returns for `problems[i]` (`max_revs` is ignored).
 ///
 /// # Method
 /// See the module docs.
@@ -190,19 +190,8 @@ fn run<R: Real>(problems: &[LambertProblem], out: &mut [Result<LambertSolution, 
         solve_pack::<R>(ps, os);
     }
     for (p, o) in problems[full..].iter().zip(&mut out[full..]) {
-        *o = scalar(p);
+        *o = zero_rev_of(p);
     }
-}
-
-fn scalar(p: &LambertProblem) -> Result<LambertSolution, LambertError> {
-    solve_zero_rev(
-        &p.r1,
-        &p.r2,
-        p.tof,
-        p.mu,
-        p.direction,
-        p.reference_normal.as_ref(),
-    )
 }
 
 /// Widest pack: the size of the staging buffers.
@@ -226,10 +215,7 @@ fn solve_pack<R: Real>(ps: &[LambertProblem], os: &mut [Result<LambertSolution, 
         r2: [lane(&|p| p.r2.x), lane(&|p| p.r2.y), lane(&|p| p.r2.z)],
         tof: lane(&|p| p.tof),
         mu: lane(&|p| p.mu),
-        sense: lane(&|p| match p.direction {
-            Direction::Prograde => 1.0,
-            Direction::Retrograde => -1.0,
-        }),
+        sense: lane(&|p| p.direction.sense()),
         normal: [
             lane(&|p| normal(p, 0)),
             lane(&|p| normal(p, 1)),
@@ -255,7 +241,7 @@ fn solve_pack<R: Real>(ps: &[LambertProblem], os: &mut [Result<LambertSolution, 
                 done: true,
             }))
         } else {
-            scalar(p)
+            zero_rev_of(p)
         };
     }
 }

@@ -277,12 +277,31 @@ pub fn solve_zero_rev(
     direction: Direction,
     reference_normal: Option<&Vector3<f64>>,
 ) -> Result<LambertSolution, LambertError> {
+    let args = ZeroRevArgs {
+        r1,
+        r2,
+        tof,
+        mu,
+        direction,
+        reference_normal,
+    };
     #[cfg(target_arch = "x86_64")]
     if std::arch::is_x86_feature_detected!("avx2") {
         // SAFETY: the CPU has AVX2 (checked above).
-        return unsafe { zero_rev_avx2(r1, r2, tof, mu, direction, reference_normal) };
+        return unsafe { zero_rev_avx2(&args) };
     }
-    zero_rev_in(r1, r2, tof, mu, direction, reference_normal)
+    zero_rev_in(&args)
+}
+
+/// The arguments of [`solve_zero_rev`].
+#[derive(Debug, Clone, Copy)]
+struct ZeroRevArgs<'a> {
+    r1: &'a Vector3<f64>,
+    r2: &'a Vector3<f64>,
+    tof: f64,
+    mu: f64,
+    direction: Direction,
+    reference_normal: Option<&'a Vector3<f64>>,
 }
 
 /// The careful path of [`solve_zero_rev`] for what the fast path declines
@@ -290,19 +309,13 @@ pub fn solve_zero_rev(
 /// degenerate 180-degree plane, the near-parabolic series and the
 /// bisection safeguard.
 #[cold]
-pub(super) fn careful_zero_rev(
-    r1: &Vector3<f64>,
-    r2: &Vector3<f64>,
-    tof: f64,
-    mu: f64,
-    direction: Direction,
-    reference_normal: Option<&Vector3<f64>>,
-) -> Result<LambertSolution, LambertError> {
-    Geometry::new(r1, r2, tof, mu, direction, reference_normal)?.zero_rev(izzo::ZERO_REV_TOL)
+fn careful_zero_rev(a: &ZeroRevArgs<'_>) -> Result<LambertSolution, LambertError> {
+    Geometry::new(a.r1, a.r2, a.tof, a.mu, a.direction, a.reference_normal)?
+        .zero_rev(izzo::ZERO_REV_TOL)
 }
 
 /// [`solve_zero_rev`] of a [`LambertProblem`].
-fn zero_rev_of(p: &LambertProblem) -> Result<LambertSolution, LambertError> {
+pub(super) fn zero_rev_of(p: &LambertProblem) -> Result<LambertSolution, LambertError> {
     solve_zero_rev(
         &p.r1,
         &p.r2,
@@ -391,45 +404,28 @@ pub fn solve(p: &LambertProblem) -> Result<Vec<LambertSolution>, LambertError> {
 /// enabled).
 #[cfg(target_arch = "x86_64")]
 #[target_feature(enable = "avx2")]
-fn zero_rev_avx2(
-    r1: &Vector3<f64>,
-    r2: &Vector3<f64>,
-    tof: f64,
-    mu: f64,
-    direction: Direction,
-    reference_normal: Option<&Vector3<f64>>,
-) -> Result<LambertSolution, LambertError> {
-    zero_rev_in(r1, r2, tof, mu, direction, reference_normal)
+fn zero_rev_avx2(a: &ZeroRevArgs<'_>) -> Result<LambertSolution, LambertError> {
+    zero_rev_in(a)
 }
 
 /// The fast path (`fast.rs`) on one problem; the careful path where it
 /// declines.
 #[inline(always)]
-fn zero_rev_in(
-    r1: &Vector3<f64>,
-    r2: &Vector3<f64>,
-    tof: f64,
-    mu: f64,
-    direction: Direction,
-    reference_normal: Option<&Vector3<f64>>,
-) -> Result<LambertSolution, LambertError> {
+fn zero_rev_in(a: &ZeroRevArgs<'_>) -> Result<LambertSolution, LambertError> {
     let v = |a: &Vector3<f64>| [a.x, a.y, a.z];
     let pack = Pack {
-        r1: v(r1),
-        r2: v(r2),
-        tof,
-        mu,
-        sense: match direction {
-            Direction::Prograde => 1.0,
-            Direction::Retrograde => -1.0,
-        },
-        normal: reference_normal.map_or([0.0, 0.0, 1.0], v),
+        r1: v(a.r1),
+        r2: v(a.r2),
+        tof: a.tof,
+        mu: a.mu,
+        sense: a.direction.sense(),
+        normal: a.reference_normal.map_or([0.0, 0.0, 1.0], v),
     };
     let fast = fast::zero_rev(&pack);
     if fast.done {
         Ok(fast_to_solution(&fast))
     } else {
-        careful_zero_rev(r1, r2, tof, mu, direction, reference_normal)
+        careful_zero_rev(a)
     }
 }
 

@@ -21,6 +21,16 @@ pub enum Direction {
     Retrograde,
 }
 
+impl Direction {
+    /// +1 prograde, -1 retrograde.
+    pub(crate) fn sense(self) -> f64 {
+        match self {
+            Direction::Prograde => 1.0,
+            Direction::Retrograde => -1.0,
+        }
+    }
+}
+
 /// Which solution of a given revolution count.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub enum Branch {

@@ -3,6 +3,7 @@
 
 use super::*;
 use crate::lambert::cases::{Cases, BENCH_SEED};
+use crate::lambert::types::Direction;
 use nalgebra::Vector3;
 
 /// 100,000 problems of the shared generator (a seed of their own), every
@@ -48,7 +49,7 @@ fn test_set() -> Vec<LambertProblem> {
 }
 
 fn scalar_all(ps: &[LambertProblem]) -> Vec<Result<LambertSolution, LambertError>> {
-    ps.iter().map(scalar).collect()
+    ps.iter().map(zero_rev_of).collect()
 }
 
 /// Equal bits: velocities, angle, iteration count, revolutions, branch; or
