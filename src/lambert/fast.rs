@@ -128,7 +128,6 @@ struct Shape<R> {
     one_m_l: R,
     one_m_l2: R,
     one_m_l3: R,
-    one_m_l5: R,
     /// `2 lambda^3`, `2 (1 - lambda^2) lambda^3`, `6 (1 - lambda^2) lambda^5`:
     /// the constants of the derivative recursions.
     c1: R,
@@ -151,7 +150,6 @@ impl<R: Real> Shape<R> {
             one_m_l,
             one_m_l2,
             one_m_l3: one_m_l * (one + l + l2),
-            one_m_l5: one_m_l * (one + l + l2 + l3 + l2 * l2),
             c1: l3 + l3,
             c2: k + k,
             c3: R::splat(6.0) * k * l2,
@@ -301,7 +299,7 @@ pub(crate) fn zero_rev<R: Real>(p: &Pack<R>) -> PackSolution<R> {
     let th = atan2_first(half_sin, half_cos);
     let theta = R::select(long, R::splat(std::f64::consts::TAU) - (th + th), th + th);
 
-    let x0 = zero_rev_guess(t_star, sh.l, sh.one_m_l, sh.one_m_l3, sh.one_m_l5);
+    let x0 = zero_rev_guess(t_star, sh.l, sh.one_m_l, sh.one_m_l3);
     ok = ok & (-one).lt(x0);
 
     // Householder iterations on (-1, inf), in lock step; a lane leaves

@@ -22,7 +22,7 @@
 //! - between the anchors `T0 = T(0)` and `T1 = T(1)` the initial guess is
 //!   the linear interpolation `x0 = (T0 - T)/(T0 - T1)` (the printed
 //!   formula for that range is reported wrong);
-//! - Householder iterations stop at a last correction below `1e-4`
+//! - Householder iterations stop at a last correction below `3e-4`
 //!   (relative to `min(1, 1 + x)`): the update is of order four, so the
 //!   root is then at rounding;
 //! - the careful path (below) keeps every iterate in the domain (`x > -1`,

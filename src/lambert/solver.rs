@@ -249,7 +249,7 @@ impl Geometry {
 /// Izzo (2015), *Revisiting Lambert's problem*, CMDA 121, DOI
 /// 10.1007/s10569-014-9587-y: see the module docs for the method and the
 /// deviations. Householder iterations stop when the last correction of
-/// `x` is below `1e-4 min(1, 1 + x)` (the next would be below rounding);
+/// `x` is below `3e-4 min(1, 1 + x)` (the next would be below rounding);
 /// about two iterations on average.
 ///
 /// # Units
