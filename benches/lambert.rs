@@ -1,121 +1,292 @@
 //! Benchmarks: the Lambert solver (criterion).
 //!
-//! - `lambert/zero_rev`: one `solve_zero_rev` per iteration over a fixed,
-//!   seeded set of heliocentric problems (radii 0.5-5 au, any transfer
-//!   angle, tof 0.2-3 Hohmann times, mu = GM Sun, IAU 2009).
-//! - `lambert/multi_rev`: `solve_revs` for M = 1..2, both branches.
+//! All zero-revolution benchmarks run on the shared case set
+//! (`synodic::lambert::cases`, seed `BENCH_SEED`, 4096 problems: radii
+//! 0.5-5 au, any transfer angle, planes inclined 0-30 deg, time of flight
+//! 0.2-3 Hohmann times) and report **ns per solve**:
+//! - `lambert/zero_rev`: `solve_zero_rev`, one problem at a time;
+//! - `lambert/batch`: `solve_zero_rev_batch` on the whole set, on the
+//!   widest lanes this CPU has, and `lambert/batch/<lanes>` on each lane
+//!   set it has (`portable`, `sse2`, `avx2`, `avx512`): ns per solve, the
+//!   same results as `lambert/zero_rev` bit for bit (asserted);
+//! - `lambert/multi_rev`: `solve_revs` for M = 1 or 2, both branches
+//!   (its own set with 6-12 Hohmann times of flight), ns per call.
 //!
-//! Every result is checked to be finite inside the timed loop, so a
-//! benchmark that computes nonsense fails. The average iteration count
-//! is printed once before timing.
+//! Before timing, every solution of the set is checked against the
+//! universal-variable propagator (`synodic::orbit::propagate`): the arc
+//! from `(r1, v1)` reaches `r2` and arrives with `v2`. Inside the timed
+//! loop each block's results are summed and compared bit for bit with the
+//! checked solutions' sum, so a benchmark that computes anything else
+//! fails.
+//!
+//! Run: `cargo bench --bench lambert -- --warm-up-time 1 --measurement-time 3`;
+//! quick check that every benchmark runs and asserts:
+//! `cargo bench --bench lambert -- --test`.
+//!
+//! Instruction counts: with `SYNODIC_PROFILE=zero_rev` (or `batch`,
+//! `multi_rev`) the binary skips criterion and solves the set
+//! `SYNODIC_PROFILE_ROUNDS` times (default 10) in a function named
+//! `profile_loop`, for
+//! `valgrind --tool=callgrind --toggle-collect='*profile_loop*'`
+//! (valgrind runs no AVX-512 code; its CPU reports none, so `batch` runs
+//! on AVX2 there; `SYNODIC_LANES=portable|sse2|avx2|avx512` picks a lane
+//! set). The same mode times solves in CPU time, which a loaded machine
+//! disturbs less than wall time: `perf stat -r 5 -e task-clock`.
 
-use criterion::{criterion_group, criterion_main, Criterion};
-use nalgebra::Vector3;
-use std::f64::consts::{PI, TAU};
+use criterion::Criterion;
 use std::hint::black_box;
-use synodic::lambert::{solve_revs, solve_zero_rev, Direction, LambertProblem};
+use std::time::{Duration, Instant};
+use synodic::lambert::cases::{Cases, BENCH_SEED};
+use synodic::lambert::{
+    solve_revs, solve_zero_rev, solve_zero_rev_batch, solve_zero_rev_batch_on, LambertError,
+    LambertProblem, LambertSolution, Lanes,
+};
+use synodic::orbit::{propagate, State};
 
-/// GM of the Sun, km^3/s^2 (IAU 2009 system of constants, TDB-compatible).
-const MU_SUN: f64 = 1.327_124_400_41e11;
-/// The astronomical unit, km (IAU 2012 Resolution B2).
-const AU_KM: f64 = 149_597_870.7;
 const N_PROBLEMS: usize = 4096;
 
-/// splitmix64: a tiny seeded generator, so the problem set is fixed.
-struct SplitMix(u64);
-
-impl SplitMix {
-    fn next_f64(&mut self) -> f64 {
-        self.0 = self.0.wrapping_add(0x9e37_79b9_7f4a_7c15);
-        let mut z = self.0;
-        z = (z ^ (z >> 30)).wrapping_mul(0xbf58_476d_1ce4_e5b9);
-        z = (z ^ (z >> 27)).wrapping_mul(0x94d0_49bb_1331_11eb);
-        z ^= z >> 31;
-        (z >> 11) as f64 / (1u64 << 53) as f64
-    }
-    fn range(&mut self, a: f64, b: f64) -> f64 {
-        a + (b - a) * self.next_f64()
-    }
-}
-
-fn problems(seed: u64, tof_factor: (f64, f64), max_revs: u32) -> Vec<LambertProblem> {
-    let mut rng = SplitMix(seed);
-    (0..N_PROBLEMS)
-        .map(|_| {
-            let ra = rng.range(0.5, 5.0) * AU_KM;
-            let rb = rng.range(0.5, 5.0) * AU_KM;
-            let phase = rng.range(0.0, TAU);
-            // Transfer angle anywhere, avoiding the degenerate 1e-6 bands.
-            let ang = rng.range(1e-3, TAU - 1e-3);
-            let tilt = rng.range(-0.1, 0.1);
-            let r1 = ra * Vector3::new(phase.cos(), phase.sin(), 0.0);
-            let r2 = rb * Vector3::new((phase + ang).cos(), (phase + ang).sin(), tilt);
-            let sma = 0.5 * (ra + rb);
-            let hohmann = PI * (sma * sma * sma / MU_SUN).sqrt();
-            let tof = rng.range(tof_factor.0, tof_factor.1) * hohmann;
-            LambertProblem {
-                r1,
-                r2,
-                tof,
-                mu: MU_SUN,
-                direction: if rng.next_f64() < 0.5 {
-                    Direction::Prograde
-                } else {
-                    Direction::Retrograde
-                },
-                max_revs,
-                reference_normal: None,
-            }
-        })
+/// The zero-revolution case set.
+fn zero_rev_set() -> Vec<LambertProblem> {
+    Cases::take(BENCH_SEED, N_PROBLEMS)
+        .into_iter()
+        .map(|c| c.problem)
         .collect()
 }
 
-fn bench(c: &mut Criterion) {
-    let zero = problems(0x5eed_0001, (0.2, 3.0), 0);
-    let iters: u32 = zero
-        .iter()
-        .map(|p| {
-            solve_zero_rev(&p.r1, &p.r2, p.tof, p.mu, p.direction, None)
-                .expect("zero-rev benchmark problem")
-                .iterations
+/// Multi-revolution problems: the case geometry with 6-12 Hohmann times
+/// of flight, for M = 1 or 2 alternately, kept where a solution exists.
+fn multi_rev_set() -> Vec<(LambertProblem, u32)> {
+    Cases::take(0x5eed_0002, N_PROBLEMS)
+        .into_iter()
+        .enumerate()
+        .map(|(k, c)| {
+            let f = 6.0 + 6.0 * (k as f64 / N_PROBLEMS as f64);
+            let p = LambertProblem {
+                tof: f * c.hohmann_s,
+                max_revs: 2,
+                ..c.problem
+            };
+            (p, 1 + (k % 2) as u32)
         })
-        .sum();
+        .filter(|(p, m)| solve_revs(p, *m).is_ok())
+        .collect()
+}
+
+fn solve_one(p: &LambertProblem) -> LambertSolution {
+    solve_zero_rev(&p.r1, &p.r2, p.tof, p.mu, p.direction, None)
+        .expect("every benchmark problem has a zero-revolution solution")
+}
+
+/// Asserts that the arc from `(r1, s.v1)` reaches `(r2, s.v2)` after
+/// `tof` (universal-variable propagation, Bate, Mueller & White 1971,
+/// ch. 4). Tolerance: 1e-8 relative, the propagator's own accuracy on
+/// these arcs (the solver is good to ~1e-13).
+fn assert_lands(p: &LambertProblem, s: &LambertSolution) {
+    let start = State {
+        r_km: p.r1,
+        v_km_s: s.v1,
+    };
+    let end = propagate(&start, p.tof, p.mu).expect("propagation of a benchmark arc");
+    let miss = (end.r_km - p.r2).norm() / p.r2.norm();
+    let dv = (end.v_km_s - s.v2).norm() / s.v2.norm();
+    assert!(miss < 1e-8 && dv < 1e-8, "{p:?}: miss {miss:e}, dv {dv:e}");
+}
+
+/// Order-dependent hash of every velocity component's bits: equal
+/// hashes mean the same solutions (to any practical certainty).
+fn checksum<'a>(sols: impl Iterator<Item = &'a LambertSolution>) -> u64 {
+    let mut h = 0u64;
+    for s in sols {
+        for v in s.v1.iter().chain(s.v2.iter()) {
+            h = (h.rotate_left(7) ^ v.to_bits()).wrapping_mul(0x9e37_79b9_7f4a_7c15);
+        }
+    }
+    h
+}
+
+/// Times `solve` (which solves `n` problems) and reports the time per
+/// problem; after each timed call, untimed, `check` must return the
+/// expected checksum.
+fn per_solve<S>(
+    c: &mut Criterion,
+    id: &str,
+    n: usize,
+    expected: u64,
+    state: &mut S,
+    mut solve: impl FnMut(&mut S),
+    check: impl Fn(&S) -> u64,
+) {
+    c.bench_function(id, |b| {
+        b.iter_custom(|iters| {
+            let mut total = Duration::ZERO;
+            for _ in 0..iters {
+                let start = Instant::now();
+                solve(state);
+                total += start.elapsed();
+                assert_eq!(check(state), expected, "{id}: results changed");
+            }
+            Duration::from_secs_f64(total.as_secs_f64() / n as f64)
+        })
+    });
+}
+
+/// Solves `set` into `out`, slot by slot, as the batch harness below does
+/// (the instruction-count harness: nothing else runs inside, so
+/// callgrind's count over this function is the solves').
+#[inline(never)]
+fn profile_loop(set: &[LambertProblem], out: &mut [Result<LambertSolution, LambertError>]) {
+    for (o, p) in out.iter_mut().zip(set) {
+        let p = black_box(p);
+        *o = solve_zero_rev(&p.r1, &p.r2, p.tof, p.mu, p.direction, None);
+    }
+}
+
+/// The batch solver on `set` (the instruction-count harness).
+#[inline(never)]
+fn profile_loop_batch(
+    lanes: Lanes,
+    set: &[LambertProblem],
+    out: &mut [Result<LambertSolution, LambertError>],
+) {
+    solve_zero_rev_batch_on(lanes, set, out).expect("matching lengths, available lanes");
+}
+
+#[inline(never)]
+fn profile_loop_multi(set: &[(LambertProblem, u32)], rounds: usize) -> usize {
+    let mut n = 0;
+    for _ in 0..rounds {
+        for (p, m) in set {
+            n += solve_revs(black_box(p), *m).map_or(0, |s| s.len());
+        }
+    }
+    n
+}
+
+fn profile(which: &str) {
+    let rounds = std::env::var("SYNODIC_PROFILE_ROUNDS")
+        .ok()
+        .and_then(|s| s.parse().ok())
+        .unwrap_or(10);
+    match which {
+        "zero_rev" => {
+            let set = zero_rev_set();
+            let mut out = vec![Err(LambertError::ZeroReferenceNormal); set.len()];
+            let mut sum = 0u64;
+            for _ in 0..rounds {
+                profile_loop(&set, &mut out);
+                let sols = out
+                    .iter()
+                    .map(|r| r.as_ref().expect("every problem solves"));
+                sum = sum.wrapping_add(checksum(sols));
+            }
+            println!("zero_rev: {} solves, checksum {sum:x}", rounds * set.len());
+        }
+        "batch" => {
+            let set = zero_rev_set();
+            let lanes = match std::env::var("SYNODIC_LANES").as_deref() {
+                Ok("portable") => Lanes::Portable,
+                Ok("sse2") => Lanes::Sse2,
+                Ok("avx2") => Lanes::Avx2,
+                Ok("avx512") => Lanes::Avx512,
+                _ => Lanes::detect(),
+            };
+            let mut out = vec![Err(LambertError::ZeroReferenceNormal); set.len()];
+            let mut sum = 0u64;
+            for _ in 0..rounds {
+                profile_loop_batch(lanes, &set, &mut out);
+                let sols: Vec<_> = out.iter().map(|r| *r.as_ref().expect("solves")).collect();
+                sum = sum.wrapping_add(checksum(sols.iter()));
+            }
+            println!(
+                "batch ({lanes:?}): {} solves, checksum {sum:x}",
+                rounds * set.len()
+            );
+        }
+        "multi_rev" => {
+            let set = multi_rev_set();
+            let n = profile_loop_multi(&set, rounds);
+            println!("multi_rev: {} calls, {n} solutions", rounds * set.len());
+        }
+        other => {
+            panic!("SYNODIC_PROFILE: unknown benchmark {other:?} (zero_rev, batch, multi_rev)")
+        }
+    }
+}
+
+fn main() {
+    if let Ok(which) = std::env::var("SYNODIC_PROFILE") {
+        profile(&which);
+        return;
+    }
+    // Plots off: criterion draws them with plotters, whose fonts this
+    // crate registers only for its own charts.
+    let mut c = Criterion::default().without_plots().configure_from_args();
+
+    let zero = zero_rev_set();
+    let reference: Vec<LambertSolution> = zero.iter().map(solve_one).collect();
+    for (p, s) in zero.iter().zip(&reference) {
+        assert_lands(p, s);
+    }
+    let iters: u32 = reference.iter().map(|s| s.iterations).sum();
     eprintln!(
         "lambert/zero_rev: average iterations {:.3} over {} problems",
         f64::from(iters) / zero.len() as f64,
         zero.len()
     );
-    let mut i = 0;
-    c.bench_function("lambert/zero_rev", |b| {
-        b.iter(|| {
-            let p = &zero[i % N_PROBLEMS];
-            i += 1;
-            let s = solve_zero_rev(
-                black_box(&p.r1),
-                black_box(&p.r2),
-                black_box(p.tof),
-                black_box(p.mu),
-                p.direction,
-                None,
-            )
-            .expect("zero-rev benchmark problem");
-            assert!(s.v1.x.is_finite() && s.v2.z.is_finite());
-            s
-        })
-    });
+    let expected = checksum(reference.iter());
+    let mut sols = Vec::with_capacity(zero.len());
+    per_solve(
+        &mut c,
+        "lambert/zero_rev",
+        zero.len(),
+        expected,
+        &mut sols,
+        |out| {
+            out.clear();
+            out.extend(zero.iter().map(|p| solve_one(black_box(p))));
+        },
+        |out| checksum(out.iter()),
+    );
 
-    // Multi-revolution: enough time for 1 or 2 revolutions on every problem.
-    let multi: Vec<(LambertProblem, u32)> = problems(0x5eed_0002, (6.0, 12.0), 2)
-        .into_iter()
-        .enumerate()
-        .map(|(k, p)| (p, 1 + (k % 2) as u32))
-        .filter(|(p, m)| solve_revs(p, *m).is_ok())
-        .collect();
+    // Batches: the same set, the same bits.
+    let mut results = vec![Err(LambertError::ZeroReferenceNormal); zero.len()];
+    let batch_sum = |out: &Vec<Result<LambertSolution, LambertError>>| {
+        checksum(
+            out.iter()
+                .map(|r| r.as_ref().expect("every problem solves")),
+        )
+    };
+    per_solve(
+        &mut c,
+        "lambert/batch",
+        zero.len(),
+        expected,
+        &mut results,
+        |out| solve_zero_rev_batch(black_box(&zero), out).expect("matching lengths"),
+        batch_sum,
+    );
+    for lanes in Lanes::available() {
+        let id = format!("lambert/batch/{}", format!("{lanes:?}").to_lowercase());
+        per_solve(
+            &mut c,
+            &id,
+            zero.len(),
+            expected,
+            &mut results,
+            |out| solve_zero_rev_batch_on(lanes, black_box(&zero), out).expect("available"),
+            batch_sum,
+        );
+    }
+
+    let multi = multi_rev_set();
     let (mut n, mut it) = (0u32, 0u32);
+    let mut multi_ref = Vec::new();
     for (p, m) in &multi {
-        for s in solve_revs(p, *m).unwrap() {
+        for s in solve_revs(p, *m).expect("kept because it solves") {
+            assert_lands(p, &s);
             n += 1;
             it += s.iterations;
+            multi_ref.push(s);
         }
     }
     eprintln!(
@@ -124,23 +295,22 @@ fn bench(c: &mut Criterion) {
         multi.len(),
         f64::from(it) / f64::from(n)
     );
-    let mut j = 0;
-    c.bench_function("lambert/multi_rev", |b| {
-        b.iter(|| {
-            let (p, m) = &multi[j % multi.len()];
-            j += 1;
-            let s = solve_revs(black_box(p), black_box(*m)).expect("multi-rev benchmark");
-            assert!(s.len() == 2 && s[0].v1.x.is_finite() && s[1].v2.z.is_finite());
-            s
-        })
-    });
-}
+    let expected = checksum(multi_ref.iter());
+    let mut sols = Vec::with_capacity(multi_ref.len());
+    per_solve(
+        &mut c,
+        "lambert/multi_rev",
+        multi.len(),
+        expected,
+        &mut sols,
+        |out| {
+            out.clear();
+            for (p, m) in &multi {
+                out.extend(solve_revs(black_box(p), *m).expect("multi-rev benchmark"));
+            }
+        },
+        |out| checksum(out.iter()),
+    );
 
-criterion_group! {
-    name = benches;
-    // Plots off: criterion draws them with plotters, whose fonts this
-    // crate registers only for its own charts.
-    config = Criterion::default().without_plots();
-    targets = bench
+    c.final_summary();
 }
-criterion_main!(benches);
