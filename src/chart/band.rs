@@ -21,9 +21,9 @@ use super::isolines::Lattice;
 
 /// Half-width of the band in grid steps (the larger of the two px sizes
 /// of a step).
-pub const BAND_STEPS: f64 = 2.0;
+pub const BAND_STEPS: f64 = 3.0;
 /// Smallest half-width of the band, logical px at the reference size.
-pub const BAND_MIN_PX: f64 = 9.0;
+pub const BAND_MIN_PX: f64 = 12.0;
 
 /// One pass of the distance transform along a line of samples spaced `w`
 /// apart: `out[p] = min_q (w (p - q))^2 + f[q]`.
@@ -183,8 +183,8 @@ mod tests {
     #[test]
     fn band_follows_a_diagonal_line_at_its_width() {
         // Transfer angle - 180 = x - y on a 60 x 60 lattice: the line
-        // x = y. At 3 px per step across and up (2 steps = 6 px) the
-        // minimum of 9 px sets the half-width, 3 steps; the
+        // x = y. At 3 px per step across and up (3 steps = 9 px) the
+        // minimum of 12 px sets the half-width, 4 steps; the
         // perpendicular distance of sample (x, y) from the seeds is
         // about |x - y| * 3 / sqrt 2 px.
         let lat = Lattice {
@@ -210,11 +210,11 @@ mod tests {
                 assert!(!inside, "sample {k} at {perp_px} px inside");
             }
         }
-        // On a coarse chart (20 px per step) two steps set it: 40 px.
+        // On a coarse chart (20 px per step) three steps set it: 60 px.
         let band = ridge_band(&ridge, &lat, (20.0, 20.0));
         let width = (0..60).filter(|&i| band[30 * 60 + i]).count();
-        // Along a row, 40 px either side of the seeds is 40 / 20 = 2
-        // steps at 45 degrees times sqrt 2: about 2.8 steps each side.
-        assert!((5..=8).contains(&width), "{width}");
+        // Along a row, 60 px either side of the seeds is 60 / 20 = 3
+        // steps at 45 degrees times sqrt 2: about 4.2 steps each side.
+        assert!((9..=12).contains(&width), "{width}");
     }
 }

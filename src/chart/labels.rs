@@ -47,10 +47,17 @@ struct Label {
     size_px: f64,
 }
 
-/// A callout to draw: one or two lines of text in a framed box.
+/// A callout to draw: one or two lines of text in a framed box, with a
+/// leader line from its marker.
 struct Callout {
     frame: Rect,
     lines: Vec<String>,
+    marker: (f64, f64),
+}
+
+/// The point of `r` nearest to `p`.
+fn nearest_on(r: &Rect, p: (f64, f64)) -> (f64, f64) {
+    (p.0.clamp(r.x0, r.x1), p.1.clamp(r.y0, r.y1))
 }
 
 /// How the window chart draws a marker of `kind`.
@@ -147,7 +154,11 @@ pub(crate) fn markers_and_labels<DB: DrawingBackend>(
                 + CALLOUT_LINE_PX * k * (lines.len() as f64 - 1.0);
             let size = (w + CALLOUT_PAD_PX.0 * k, h + CALLOUT_PAD_PX.1 * k);
             if let Some(frame) = placer.beside_point(*p, size, k) {
-                callouts.push(Callout { frame, lines });
+                callouts.push(Callout {
+                    frame,
+                    lines,
+                    marker: *p,
+                });
                 break;
             }
         }
@@ -184,6 +195,10 @@ pub(crate) fn markers_and_labels<DB: DrawingBackend>(
             &l.colour,
             (HPos::Center, VPos::Center),
         )?;
+    }
+    for c in &callouts {
+        let end = nearest_on(&c.frame, c.marker);
+        pen.line(&[c.marker, end], INK, THIN_STROKE_PX, None)?;
     }
     for (m, p) in &marks {
         pen.marker(*p, r_mark, marker_look(m.kind))?;

@@ -186,8 +186,8 @@ fn ridge_follows_the_180_degree_crossing_only() {
 fn lines_keep_out_of_the_band_around_180_degrees() {
     // The 180-degree line is tof = 250 d: in px, the straight line
     // through the map of (d, d + 250). Grid steps: 2 d across (6.1 px at
-    // the reference size), 3 d up (5.4 px), so the band reaches two
-    // steps, 12.2 px, either side (more than its 9 px minimum). Lines
+    // the reference size), 3 d up (5.4 px), so the band reaches three
+    // steps, 18.3 px, either side (more than its 12 px minimum). Lines
     // stop where a sample inside the band neighbours one outside, within
     // one step of the edge.
     let g = analytic_grid(SecondAxis::Arrival);
