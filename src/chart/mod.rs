@@ -1,4 +1,4 @@
-//! Contour charts of a sweep grid, as SVG and PNG.
+//! Contour charts of a sweep grid, as SVG, PNG and PDF.
 //!
 //! One chart shows one solution layer of a [`Grid`]: departure date across,
 //! arrival date (or time of flight) up, with
@@ -8,39 +8,75 @@
 //! * lines of constant time of flight (dotted diagonals, labelled in days;
 //!   left out when the second axis already is the time of flight),
 //! * the 180-degree transfer-angle line that separates Type I from Type II
-//!   transfers, with both regions named,
-//! * cells without a solution left blank (light grey), never drawn as zero,
+//!   transfers, with both regions named, in the middle of a band left
+//!   without contours or labels (below),
+//! * cells without figures left blank and told apart: "arrival before
+//!   departure" (a fact of the axes, outlined exactly) and "no solution"
+//!   (the solver's verdict), never drawn as zero,
 //! * an optional shaded region where C3 stays within a limit,
-//! * markers with their annotations, a legend, title, subtitle and caption.
+//! * markers (Type I circles, Type II triangles) with callouts quoting the
+//!   chart's own quantity, a legend of what is drawn, title, subtitle
+//!   (with the grid step) and caption.
 //!
 //! A [`Panel`] ([`render_panel_svg`], [`render_panel_png`]) is the same
 //! frame with another quantity contoured instead of C3 and v-infinity: the
 //! departure asymptote's declination (DLA), the arrival asymptote's
 //! declination, or the total delta-v.
 //!
+//! # Near the 180-degree line
+//!
+//! Where the transfer angle nears 180 degrees the transfer plane is
+//! barely defined and every figure changes steeply; a grid shows that as
+//! a knot of contours plus sampling noise. No contour and no label is
+//! drawn within [`BAND_STEPS`] grid steps of the line (the larger step in
+//! px), and never within less than [`BAND_MIN_PX`] px at the reference
+//! size (1800 x 1350); the band is tinted and the line drawn once on top.
+//!
+//! # Levels
+//!
+//! Automatic levels ([`levels`]) start half a round step above the field's
+//! minimum and widen along 1-2-5 up to 4 times the minimum (or the field's
+//! 60 % quantile, if lower), at most 12 lines. Explicit levels outside the
+//! chart's data are not drawn; [`Chart::warnings`] says so with the data's
+//! range, for the caller to print.
+//!
+//! # Slides
+//!
+//! [`Slide`] overrides the title and subtitle and crops to departure and
+//! second-axis windows; [`page_svg`], [`page_png`] and [`page_pdf`] put
+//! several charts (panels of a sweep, or opportunities cropped from it) on
+//! one sheet; [`Chart::pdf`], [`overview_pdf`] and [`svg_to_pdf`] write
+//! vector PDF with the embedded font.
+//!
 //! # How a chart is made
 //!
 //! Data flows one way through modules of one concept each:
 //!
-//! * `plan` works out, once per chart, everything that is drawn: the
-//!   layer's fields, the contour levels ([`levels`]) and their
-//!   [`isolines`] (marching squares, via the `contour` crate), the shaded
-//!   and blank regions, the time-of-flight lines, the title and the ticks;
-//!   `panel` says what a [`Panel`] contours;
+//! * `fields` takes the layer's fields onto the chart's lattice (crop
+//!   windows applied, blank cells sorted by why), `band` finds the band
+//!   around the 180-degree line (an exact distance transform), `plan`
+//!   works out, once per chart, everything that is drawn: the contour
+//!   levels ([`levels`]) and their [`isolines`] (marching squares, via the
+//!   `contour` crate), the shaded and blank regions, the time-of-flight
+//!   lines, the titles and warnings; `ticks` places calendar and number
+//!   ticks; `panel` says what a [`Panel`] contours;
 //! * `geometry` holds the plane geometry in logical px: the layout, the
-//!   map from data coordinates, polygon clipping, dashes and where labels
-//!   fit;
-//! * `draw` draws a plan with `plotters`, one code path for both formats,
-//!   in the look that `style` fixes (palette, line kinds, text sizes);
+//!   map from data coordinates, polygon clipping, dashes and the placer
+//!   that keeps labels apart;
+//! * `pen` draws primitives with `plotters` on any backend; `draw` draws a
+//!   plan, `labels` its markers, callouts and labels, `legend` the legend
+//!   boxes, in the look that `style` fixes (palette, line kinds, text
+//!   sizes);
 //! * `encode` turns the drawing into bytes: the embedded font, the SVG
 //!   (text stays text; data lines tagged with a `class`) and the one PNG
 //!   pipeline of every chart (drawn at twice the size, box-filtered down
 //!   because the bitmap backend does not anti-alias, written with the
-//!   `png` crate);
-//! * `render` is the entry: a [`Chart`] planned once and drawn to SVG and
-//!   PNG, and the one-call [`render_svg`], [`render_png`],
-//!   [`render_panel_svg`], [`render_panel_png`]; `overview` draws the span
-//!   overview through the same encoder.
+//!   `png` crate); `pdf` converts an SVG with `svg2pdf`;
+//! * `render` is the entry: a [`Chart`] planned once and drawn to SVG,
+//!   PNG and PDF, and the one-call [`render_svg`], [`render_png`],
+//!   [`render_panel_svg`], [`render_panel_png`]; `page` lays charts out on
+//!   one sheet; `overview` draws the span overview with the same pen,
+//!   legend and encoder.
 //!
 //! Dates on the axes come from `calendar`, the chart's one seam to the
 //! calendar ([`date_label_tdb`]).
@@ -78,7 +114,7 @@ pub use band::{BAND_MIN_PX, BAND_STEPS};
 pub use overview::{overview_pdf, overview_png, overview_svg, OverviewPoint, OverviewSpec};
 pub use page::{page_pdf, page_png, page_svg};
 pub use panel::{Panel, MAX_ANGLE_LINES};
-pub use pdf::svg_to_pdf;
+pub use pdf::{svg_to_pdf, PDF_PX_PER_INCH};
 pub use render::{
     render_panel_png, render_panel_svg, render_png, render_svg, Chart, DEFAULT_HEIGHT_PX,
     DEFAULT_WIDTH_PX,
