@@ -13,7 +13,7 @@ use plotters::style::text_anchor::{HPos, VPos};
 
 use super::geometry::{clip_polygon, Layout, Map};
 use super::isolines::Isoline;
-use super::labels::{marker_look, markers_and_labels, Traced};
+use super::labels::{marker_look, markers_and_labels, Contours, Traced};
 use super::legend::{legend_box, Row, Sample};
 use super::levels::format_level;
 use super::pen::Pen;
@@ -50,15 +50,6 @@ const LEGEND_GAP_PX: f64 = 34.0;
 const LEGEND_RIGHT_PX: f64 = 26.0;
 /// Width of the paper-coloured halo under the 180-degree line.
 const RIDGE_HALO_PX: f64 = 6.0;
-
-/// The contour families as drawn.
-pub(crate) struct Contours {
-    pub(crate) ridge: Traced,
-    pub(crate) vinf: Traced,
-    pub(crate) c3: Traced,
-    pub(crate) limit: Traced,
-    pub(crate) panel: Traced,
-}
 
 /// Draws the whole chart on `area`, whose backend has `s` px per logical
 /// px (logical size `lay.w` x `lay.h`). With `native_dash` the backend

@@ -7,7 +7,6 @@
 use plotters::prelude::*;
 use plotters::style::text_anchor::{HPos, VPos};
 
-use super::draw::Contours;
 use super::geometry::{cumulative, longest, point_at, Map, Placer, Rect};
 use super::panel::Panel;
 use super::pen::{MarkerLook, Pen};
@@ -38,6 +37,15 @@ const RIDGE_KEEP_OUT_PX: f64 = 7.0;
 
 /// Drawn lines in logical px, each with the text of its label.
 pub(crate) type Traced = Vec<(String, Vec<(f64, f64)>)>;
+
+/// The contour families as drawn, the input of label placement.
+pub(crate) struct Contours {
+    pub(crate) ridge: Traced,
+    pub(crate) vinf: Traced,
+    pub(crate) c3: Traced,
+    pub(crate) limit: Traced,
+    pub(crate) panel: Traced,
+}
 
 /// A label to draw: text centred in a white box.
 struct Label {
