@@ -19,9 +19,8 @@ use super::levels::format_level;
 use super::pen::Pen;
 use super::plan::{Plan, Ticks};
 use super::style::{
-    Line, AXIS_TITLE_TEXT_PX, BAND_RGB, BEFORE_RGB, CAPTION, CAPTION_TEXT_PX, FRAME_RGB,
-    FRAME_STROKE_PX, GRIDLINE_RGB, INK, MARKER_RADIUS_PX, MASK_RGB, MUTED, PAPER, SHADE_RGB,
-    SUBTITLE_TEXT_PX, THIN_STROKE_PX, TICK_STROKE_PX, TICK_TEXT_PX, TITLE_TEXT_PX,
+    Line, AXIS_TITLE_TEXT_PX, BAND_RGB, BEFORE_RGB, INK, MARKER_RADIUS_PX, MASK_RGB, PAPER,
+    SHADE_RGB,
 };
 use super::{draw_err, ChartError};
 use crate::lambert::Branch;
@@ -30,10 +29,6 @@ use crate::transfer::TransferType;
 
 // Positions at the reference size, logical px (chosen by eye; no
 // source).
-/// Length of a tick outside the frame.
-const TICK_LENGTH_PX: f64 = 7.0;
-/// Gap between a tick and its label.
-const TICK_LABEL_GAP_PX: f64 = 6.0;
 /// Top of the departure-axis title below the plot.
 const X_TITLE_BELOW_PLOT_PX: f64 = 58.0;
 /// Centre of the (rotated) second-axis title from the image's left edge.
@@ -74,7 +69,7 @@ pub(crate) fn chart<DB: DrawingBackend>(
     area.fill(&PAPER).map_err(draw_err)?;
     regions(&pen, plan, &map)?;
     let ticks = plan.ticks(&map, lay.k);
-    gridlines(&pen, &map, &ticks)?;
+    pen.gridlines(&map, &ticks.x.at, &ticks.y)?;
     let tof = tof_lines(&pen, plan, &map)?;
     let contours = contours(&pen, plan, &map)?;
     axes(&pen, plan, &map, &ticks)?;
@@ -116,33 +111,6 @@ fn regions<DB: DrawingBackend>(
         &clip_polygon(&map.polyline_px(&plan.before), &plot),
         BEFORE_RGB,
     )
-}
-
-fn gridlines<DB: DrawingBackend>(
-    pen: &Pen<'_, DB>,
-    map: &Map,
-    ticks: &Ticks,
-) -> Result<(), ChartError> {
-    let plot = map.plot;
-    for &t in &ticks.x.at {
-        let x = map.px(t);
-        pen.line(
-            &[(x, plot.y0), (x, plot.y1)],
-            GRIDLINE_RGB,
-            THIN_STROKE_PX,
-            None,
-        )?;
-    }
-    for &t in &ticks.y {
-        let y = map.py(t);
-        pen.line(
-            &[(plot.x0, y), (plot.x1, y)],
-            GRIDLINE_RGB,
-            THIN_STROKE_PX,
-            None,
-        )?;
-    }
-    Ok(())
 }
 
 /// The plan's lines of constant time of flight, labelled "N d".
@@ -222,47 +190,16 @@ fn axes<DB: DrawingBackend>(
 ) -> Result<(), ChartError> {
     let (plot, k) = (map.plot, pen.k);
     let second = plan.spec.grid.second_kind;
-    pen.line(
-        &[
-            (plot.x0, plot.y0),
-            (plot.x1, plot.y0),
-            (plot.x1, plot.y1),
-            (plot.x0, plot.y1),
-            (plot.x0, plot.y0),
-        ],
-        FRAME_RGB,
-        FRAME_STROKE_PX,
-        None,
-    )?;
-    let tick = TICK_LENGTH_PX * k;
-    for &t in &ticks.x.at {
-        let x = map.px(t);
-        let end = plot.y1 + tick;
-        pen.line(&[(x, plot.y1), (x, end)], FRAME_RGB, TICK_STROKE_PX, None)?;
-        pen.text(
-            &ticks.x.label(t),
-            (x, end + TICK_LABEL_GAP_PX * k),
-            TICK_TEXT_PX,
-            &INK,
-            (HPos::Center, VPos::Top),
-        )?;
-    }
-    for &t in &ticks.y {
-        let y = map.py(t);
-        let end = plot.x0 - tick;
-        pen.line(&[(end, y), (plot.x0, y)], FRAME_RGB, TICK_STROKE_PX, None)?;
-        let text = match &ticks.y_dates {
-            Some(d) => d.label(t),
-            None => format_level(t),
-        };
-        pen.text(
-            &text,
-            (end - TICK_LABEL_GAP_PX * k, y),
-            TICK_TEXT_PX,
-            &INK,
-            (HPos::Right, VPos::Center),
-        )?;
-    }
+    let x: Vec<(f64, String)> = ticks.x.at.iter().map(|&t| (t, ticks.x.label(t))).collect();
+    let y: Vec<(f64, String)> = ticks
+        .y
+        .iter()
+        .map(|&t| match &ticks.y_dates {
+            Some(d) => (t, d.label(t)),
+            None => (t, format_level(t)),
+        })
+        .collect();
+    pen.frame_and_ticks(map, &x, &y)?;
     pen.text(
         "Departure date (TDB)",
         (
@@ -291,27 +228,12 @@ fn titles<DB: DrawingBackend>(
     plan: &Plan<'_, '_>,
     lay: &Layout,
 ) -> Result<(), ChartError> {
-    let (x0, k) = (lay.plot.x0, lay.k);
-    pen.text(
-        &plan.title,
-        (x0, TITLE_TOP_PX * k),
-        TITLE_TEXT_PX,
-        &INK,
-        (HPos::Left, VPos::Top),
-    )?;
-    pen.text(
-        &plan.subtitle,
-        (x0, SUBTITLE_TOP_PX * k),
-        SUBTITLE_TEXT_PX,
-        &MUTED,
-        (HPos::Left, VPos::Top),
-    )?;
-    pen.text(
-        CAPTION,
-        (x0, lay.h - CAPTION_BOTTOM_PX * k),
-        CAPTION_TEXT_PX,
-        &MUTED,
-        (HPos::Left, VPos::Bottom),
+    let k = lay.k;
+    pen.headings(
+        (&plan.title, &plan.subtitle),
+        lay.plot.x0,
+        (TITLE_TOP_PX * k, SUBTITLE_TOP_PX * k),
+        lay.h - CAPTION_BOTTOM_PX * k,
     )
 }
 

@@ -18,11 +18,7 @@ use super::legend::{legend_box, Row, Sample};
 use super::levels::format_level;
 use super::pdf::svg_to_pdf;
 use super::pen::{MarkerLook, Pen};
-use super::style::{
-    AXIS_TITLE_TEXT_PX, C3_RGB, CAPTION, CAPTION_TEXT_PX, FRAME_RGB, FRAME_STROKE_PX, GRIDLINE_RGB,
-    INK, LIMIT_RGB, MUTED, PAPER, SUBTITLE_TEXT_PX, THIN_STROKE_PX, TICK_STROKE_PX, TICK_TEXT_PX,
-    TITLE_TEXT_PX, VINF_RGB,
-};
+use super::style::{AXIS_TITLE_TEXT_PX, C3_RGB, INK, LIMIT_RGB, PAPER, VINF_RGB};
 use super::ticks::{date_ticks, number_ticks};
 use super::{draw_err, ChartError};
 use crate::sweep::Objective;
@@ -52,10 +48,6 @@ const BOTTOM_PLOT_Y_PX: (f64, f64) = (650.0, 1080.0);
 /// The legends' left edge right of the plots, and right edge from the
 /// image's right edge.
 const LEGEND_GAPS_PX: (f64, f64) = (30.0, 26.0);
-/// Length of a tick outside the frame.
-const TICK_LENGTH_PX: f64 = 7.0;
-/// Gap between a tick and its label.
-const TICK_LABEL_GAP_PX: f64 = 6.0;
 /// Centre of the (rotated) value-axis titles from the left edge.
 const Y_TITLE_X_PX: f64 = 36.0;
 /// Top of the departure-axis title below the bottom plot.
@@ -241,27 +233,11 @@ fn draw<DB: DrawingBackend>(
 /// Title, subtitle and caption.
 fn headings<DB: DrawingBackend>(pen: &Pen<'_, DB>, spec: &OverviewSpec) -> Result<(), ChartError> {
     let k = pen.k;
-    let x = HEADING_LEFT_PX * k;
-    pen.text(
-        &spec.title,
-        (x, TITLE_TOP_PX * k),
-        TITLE_TEXT_PX,
-        &INK,
-        (HPos::Left, VPos::Top),
-    )?;
-    pen.text(
-        &spec.subtitle,
-        (x, SUBTITLE_TOP_PX * k),
-        SUBTITLE_TEXT_PX,
-        &MUTED,
-        (HPos::Left, VPos::Top),
-    )?;
-    pen.text(
-        CAPTION,
-        (x, (OVERVIEW_HEIGHT_PX - CAPTION_BOTTOM_PX) * k),
-        CAPTION_TEXT_PX,
-        &MUTED,
-        (HPos::Left, VPos::Bottom),
+    pen.headings(
+        (&spec.title, &spec.subtitle),
+        HEADING_LEFT_PX * k,
+        (TITLE_TOP_PX * k, SUBTITLE_TOP_PX * k),
+        (OVERVIEW_HEIGHT_PX - CAPTION_BOTTOM_PX) * k,
     )
 }
 
@@ -300,65 +276,10 @@ fn plot_quantity<DB: DrawingBackend>(
         y1,
         ((plot.y1 - plot.y0) / (Y_TICK_SPACING_PX * k)) as usize,
     );
-    for &t in &xt.at {
-        let x = map.px(t);
-        pen.line(
-            &[(x, plot.y0), (x, plot.y1)],
-            GRIDLINE_RGB,
-            THIN_STROKE_PX,
-            None,
-        )?;
-    }
-    for &t in &yt {
-        let y = map.py(t);
-        pen.line(
-            &[(plot.x0, y), (plot.x1, y)],
-            GRIDLINE_RGB,
-            THIN_STROKE_PX,
-            None,
-        )?;
-    }
-    let frame = [
-        (plot.x0, plot.y0),
-        (plot.x1, plot.y0),
-        (plot.x1, plot.y1),
-        (plot.x0, plot.y1),
-        (plot.x0, plot.y0),
-    ];
-    pen.line(&frame, FRAME_RGB, FRAME_STROKE_PX, None)?;
-    let tick = TICK_LENGTH_PX * k;
-    for &t in &xt.at {
-        let x = map.px(t);
-        pen.line(
-            &[(x, plot.y1), (x, plot.y1 + tick)],
-            FRAME_RGB,
-            TICK_STROKE_PX,
-            None,
-        )?;
-        pen.text(
-            &xt.label(t),
-            (x, plot.y1 + tick + TICK_LABEL_GAP_PX * k),
-            TICK_TEXT_PX,
-            &INK,
-            (HPos::Center, VPos::Top),
-        )?;
-    }
-    for &t in &yt {
-        let y = map.py(t);
-        pen.line(
-            &[(plot.x0 - tick, y), (plot.x0, y)],
-            FRAME_RGB,
-            TICK_STROKE_PX,
-            None,
-        )?;
-        pen.text(
-            &format_level(t),
-            (plot.x0 - tick - TICK_LABEL_GAP_PX * k, y),
-            TICK_TEXT_PX,
-            &INK,
-            (HPos::Right, VPos::Center),
-        )?;
-    }
+    pen.gridlines(&map, &xt.at, &yt)?;
+    let x: Vec<(f64, String)> = xt.at.iter().map(|&t| (t, xt.label(t))).collect();
+    let y: Vec<(f64, String)> = yt.iter().map(|&t| (t, format_level(t))).collect();
+    pen.frame_and_ticks(&map, &x, &y)?;
     pen.text_up(
         q.label,
         (Y_TITLE_X_PX * k, (plot.y0 + plot.y1) / 2.0),
@@ -509,18 +430,7 @@ mod tests {
         // No line joins two opportunities: every polyline runs straight
         // across or up (grid lines, frame, ticks, the ceiling) or is a
         // marker's outline, no wider than a marker.
-        for line in svg.lines().filter(|l| l.starts_with("<polyline")) {
-            let pts: Vec<(f64, f64)> = line
-                .split("points=\"")
-                .nth(1)
-                .and_then(|r| r.split('"').next())
-                .unwrap_or_default()
-                .split_whitespace()
-                .filter_map(|p| {
-                    let (x, y) = p.split_once(',')?;
-                    Some((x.parse().ok()?, y.parse().ok()?))
-                })
-                .collect();
+        for (_, pts) in crate::chart::tests::polylines(&svg) {
             let span = |f: fn(&(f64, f64)) -> f64| {
                 let v: Vec<f64> = pts.iter().map(f).collect();
                 v.iter().copied().fold(f64::MIN, f64::max)
@@ -531,7 +441,7 @@ mod tests {
             let square = pts
                 .windows(2)
                 .all(|s| (s[0].0 - s[1].0).abs() < 1e-9 || (s[0].1 - s[1].1).abs() < 1e-9);
-            assert!(square || marker, "a joining line: {line}");
+            assert!(square || marker, "a joining line: {pts:?}");
         }
     }
 

@@ -7,8 +7,18 @@ use plotters::prelude::*;
 use plotters::style::text_anchor::{HPos, Pos, VPos};
 use plotters::style::{FontStyle, FontTransform};
 
-use super::geometry::{dashes, Rect};
-use super::style::{Line, FONT_FAMILY, FONT_SCALE, INK, MARKER_STROKE_PX};
+use super::geometry::{dashes, Map, Rect};
+use super::style::{
+    Line, CAPTION, CAPTION_TEXT_PX, FONT_FAMILY, FONT_SCALE, FRAME_RGB, FRAME_STROKE_PX,
+    GRIDLINE_RGB, INK, MARKER_STROKE_PX, MUTED, SUBTITLE_TEXT_PX, THIN_STROKE_PX, TICK_STROKE_PX,
+    TICK_TEXT_PX, TITLE_TEXT_PX,
+};
+
+// At the reference size, logical px (chosen by eye; no source).
+/// Length of a tick outside the frame.
+const TICK_LENGTH_PX: f64 = 7.0;
+/// Gap between a tick and its label.
+const TICK_LABEL_GAP_PX: f64 = 6.0;
 use super::{draw_err, ChartError};
 use crate::transfer::TransferType;
 
@@ -225,5 +235,95 @@ impl<DB: DrawingBackend> Pen<'_, DB> {
     ) -> Result<(f64, f64), ChartError> {
         let (tw, th) = self.text_size(text, size_px)?;
         Ok((tw + pad.0 * self.k, th + pad.1 * self.k))
+    }
+
+    /// Grid lines of a plot at the ticks `x` (data across) and `y` (up).
+    pub(crate) fn gridlines(&self, map: &Map, x: &[f64], y: &[f64]) -> Result<(), ChartError> {
+        let plot = map.plot;
+        for &t in x {
+            let px = map.px(t);
+            self.line(
+                &[(px, plot.y0), (px, plot.y1)],
+                GRIDLINE_RGB,
+                THIN_STROKE_PX,
+                None,
+            )?;
+        }
+        for &t in y {
+            let py = map.py(t);
+            self.line(
+                &[(plot.x0, py), (plot.x1, py)],
+                GRIDLINE_RGB,
+                THIN_STROKE_PX,
+                None,
+            )?;
+        }
+        Ok(())
+    }
+
+    /// The plot's frame, and ticks with their labels below it (`x`) and
+    /// left of it (`y`): `(position in data, label)`.
+    pub(crate) fn frame_and_ticks(
+        &self,
+        map: &Map,
+        x: &[(f64, String)],
+        y: &[(f64, String)],
+    ) -> Result<(), ChartError> {
+        let (plot, k) = (map.plot, self.k);
+        let corners = [
+            (plot.x0, plot.y0),
+            (plot.x1, plot.y0),
+            (plot.x1, plot.y1),
+            (plot.x0, plot.y1),
+            (plot.x0, plot.y0),
+        ];
+        self.line(&corners, FRAME_RGB, FRAME_STROKE_PX, None)?;
+        let tick = TICK_LENGTH_PX * k;
+        for (t, label) in x {
+            let px = map.px(*t);
+            let end = plot.y1 + tick;
+            self.line(&[(px, plot.y1), (px, end)], FRAME_RGB, TICK_STROKE_PX, None)?;
+            self.text(
+                label,
+                (px, end + TICK_LABEL_GAP_PX * k),
+                TICK_TEXT_PX,
+                &INK,
+                (HPos::Center, VPos::Top),
+            )?;
+        }
+        for (t, label) in y {
+            let py = map.py(*t);
+            let end = plot.x0 - tick;
+            self.line(&[(end, py), (plot.x0, py)], FRAME_RGB, TICK_STROKE_PX, None)?;
+            self.text(
+                label,
+                (end - TICK_LABEL_GAP_PX * k, py),
+                TICK_TEXT_PX,
+                &INK,
+                (HPos::Right, VPos::Center),
+            )?;
+        }
+        Ok(())
+    }
+
+    /// Title and subtitle from their tops at `x`, and the caption with
+    /// its bottom at `caption_bottom` (logical px).
+    pub(crate) fn headings(
+        &self,
+        (title, subtitle): (&str, &str),
+        x: f64,
+        (title_top, subtitle_top): (f64, f64),
+        caption_bottom: f64,
+    ) -> Result<(), ChartError> {
+        let top = (HPos::Left, VPos::Top);
+        self.text(title, (x, title_top), TITLE_TEXT_PX, &INK, top)?;
+        self.text(subtitle, (x, subtitle_top), SUBTITLE_TEXT_PX, &MUTED, top)?;
+        self.text(
+            CAPTION,
+            (x, caption_bottom),
+            CAPTION_TEXT_PX,
+            &MUTED,
+            (HPos::Left, VPos::Bottom),
+        )
     }
 }

@@ -20,7 +20,7 @@ use crate::transfer::Endpoints;
 use plotters::style::RGBColor;
 
 /// `(class, points)` of every polyline.
-fn polylines(svg: &str) -> Vec<(String, Vec<(f64, f64)>)> {
+pub(super) fn polylines(svg: &str) -> Vec<(String, Vec<(f64, f64)>)> {
     let attr = |tag: &str, name: &str| -> Option<String> {
         let key = format!(" {name}=\"");
         let a = tag.find(&key)? + key.len();
