@@ -88,6 +88,7 @@
 
 mod band;
 mod calendar;
+mod crowd;
 mod draw;
 mod encode;
 mod fields;
@@ -111,6 +112,7 @@ mod tests;
 mod ticks;
 
 pub use band::{BAND_MIN_PX, BAND_STEPS};
+pub use crowd::MIN_LINE_GAP_PX;
 pub use overview::{overview_pdf, overview_png, overview_svg, OverviewPoint, OverviewSpec};
 pub use page::{page_pdf, page_png, page_svg};
 pub use panel::{Panel, MAX_ANGLE_LINES};

@@ -11,6 +11,7 @@
 use contour::ContourBuilder;
 
 use super::band::ridge_band;
+use super::crowd::thin;
 use super::fields::{fields, Fields};
 use super::geometry::{layout, Map, Rect, REF_HEIGHT_PX, REF_WIDTH_PX};
 use super::isolines::{extend_one_sample, isolines, Isoline, Lattice};
@@ -239,11 +240,13 @@ fn user_levels(
 
 /// The contour families of the main chart: C3 and v-infinity at the
 /// spec's levels (fitted to the data) or automatic ones, a C3 level equal
-/// to the limit left to the limit line; none in the band.
+/// to the limit left to the limit line; none in the band, none where
+/// lines crowd (`crowd`).
 fn window_families(
     spec: &ChartSpec<'_>,
     f: &Fields,
     band: &[bool],
+    px_per_day: (f64, f64),
 ) -> Result<Families, ChartError> {
     let lat = f.lattice;
     let mut warnings = Vec::new();
@@ -279,9 +282,10 @@ fn window_families(
         }
         None => (Vec::new(), Vec::new()),
     };
+    let vinf = outside_band(&f.vinf, band);
     Ok(Families {
-        c3: isolines(&c3, &lat, &c3_lv)?,
-        vinf: isolines(&outside_band(&f.vinf, band), &lat, &vinf_lv)?,
+        c3: thin(isolines(&c3, &lat, &c3_lv)?, &c3, &lat, px_per_day),
+        vinf: thin(isolines(&vinf, &lat, &vinf_lv)?, &vinf, &lat, px_per_day),
         panel: None,
         limit,
         shade,
@@ -291,17 +295,23 @@ fn window_families(
 }
 
 /// The contour family of a panel at its automatic levels, none in the
-/// band.
+/// band nor where lines crowd.
 fn panel_family(
     spec: &ChartSpec<'_>,
     f: &Fields,
-    band: &[bool],
+    (band, px_per_day): (&[bool], (f64, f64)),
     panel: Panel,
     ends: &Endpoints,
 ) -> Result<Families, ChartError> {
     let field = f.panel(spec.grid, spec.layer, panel, ends);
     let levels = panel.levels(field.iter().copied());
-    let lines = isolines(&outside_band(&field, band), &f.lattice, &levels)?;
+    let field = outside_band(&field, band);
+    let lines = thin(
+        isolines(&field, &f.lattice, &levels)?,
+        &field,
+        &f.lattice,
+        px_per_day,
+    );
     Ok(Families {
         panel: Some((panel, lines)),
         ..Families::default()
@@ -374,8 +384,10 @@ impl<'s, 'g> Plan<'s, 'g> {
         let band = ridge_band(&f.ridge, &lat, px_per_day);
         let ridge = isolines(&f.ridge, &lat, &[0.0])?;
         let families = match contours {
-            Contours::Window => window_families(spec, &f, &band)?,
-            Contours::Panel(panel, ends) => panel_family(spec, &f, &band, panel, ends)?,
+            Contours::Window => window_families(spec, &f, &band, px_per_day)?,
+            Contours::Panel(panel, ends) => {
+                panel_family(spec, &f, (&band, px_per_day), panel, ends)?
+            }
         };
         let composed = match &families.panel {
             None => spec.title.clone(),
