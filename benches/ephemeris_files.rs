@@ -41,7 +41,7 @@ fn mars_elements() -> (MeanElements, ElementRates, f64) {
             e: num(mars, "e"),
             i_deg: num(mars, "i_deg"),
             node_deg: num(mars, "node_deg"),
-            peri_deg: num(mars, "peri_deg"),
+            peri_deg: num(mars, "lon_peri_deg"),
             mean_lon_deg: num(mars, "mean_lon_deg"),
         },
         ElementRates {
@@ -49,7 +49,7 @@ fn mars_elements() -> (MeanElements, ElementRates, f64) {
             e: num(r, "e"),
             i_deg: num(r, "i_deg"),
             node_deg: num(r, "node_deg"),
-            peri_deg: num(r, "peri_deg"),
+            peri_deg: num(r, "lon_peri_deg"),
             mean_lon_deg: num(r, "mean_lon_deg"),
         },
         table["central"]["mu_km3_s2"].as_float().expect("GM"),
