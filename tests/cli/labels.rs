@@ -312,3 +312,65 @@ grid = false
     assert!(paths.len() >= 6, "{paths:?}");
     check_all(&paths);
 }
+
+#[test]
+fn every_opportunity_marked_and_pages_stay_readable() {
+    use synodic::chart::{
+        page_svg, synthetic_grid, Chart, ChartSpec, Marker, MarkerFigures, Panel,
+    };
+    use synodic::transfer::{Endpoints, TransferType};
+    // Twelve marked transfers across a synthetic window (one per
+    // opportunity and Type, as a long sweep would have): every one is
+    // drawn, the callouts that fit are placed, and nothing overlaps.
+    let g = synthetic_grid(200);
+    let markers: Vec<Marker> = (0..12)
+        .map(|n| {
+            let (i, j) = (10 + 15 * n, 80 + 10 * n);
+            let (d, a) = g.dates_days(i, j);
+            let idx = g.index(i, j, 0);
+            Marker {
+                depart_days: d,
+                second: a,
+                kind: if n % 2 == 0 {
+                    TransferType::I
+                } else {
+                    TransferType::II
+                },
+                name: format!("Opportunity {}", n + 1),
+                figures: MarkerFigures {
+                    c3_km2_s2: Some(g.c3_km2_s2(idx)),
+                    vinf_arrive_km_s: Some(g.vinf_arrive_km_s[idx]),
+                    dv_total_km_s: Some(g.vinf_depart_km_s[idx]),
+                    ..MarkerFigures::default()
+                },
+            }
+        })
+        .collect();
+    let spec = ChartSpec {
+        title: "Teodra → Kesh".to_string(),
+        markers,
+        max_c3: Some(20.0),
+        ..ChartSpec::new(&g)
+    };
+    let main = Chart::window(&spec).expect("chart");
+    let svg = main.svg().expect("svg");
+    assert_readable("many markers", &svg);
+    // Marker fills: the twelve, and one legend sample per Type.
+    assert_eq!(svg.matches("fill=\"#FFC82E\"").count(), 12 + 2);
+    // Callouts: rectangles framed in ink.
+    let callouts = svg
+        .lines()
+        .filter(|l| l.starts_with("<rect") && attr(l, "stroke") == Some("#22222A"))
+        .count();
+    assert!(callouts >= 6, "{callouts} callouts for 12 markers");
+    // The same charts on one page, two across.
+    let bare = Endpoints::bare();
+    let dv = Chart::panel(&spec, Panel::DvTotal, &bare).expect("panel");
+    let page = page_svg("Teodra → Kesh, 2031", &[&main, &dv, &main], 2).expect("page");
+    assert!(
+        page.contains("width=\"3600\" height=\"2790\""),
+        "2 x 2 cells"
+    );
+    assert!(assert_readable("page", &page) > 3 * 15);
+    assert_eq!(legend_boxes(&page).len(), 3);
+}
