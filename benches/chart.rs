@@ -2,7 +2,8 @@
 //!
 //! `chart/svg/1000` and `chart/png/1000`: a 1000 x 1000 synthetic grid
 //! (automatic levels, a marker, the feasible-region shade) rendered to an
-//! SVG string and to 1800 x 1350 PNG bytes.
+//! SVG string and to 1800 x 1350 PNG bytes; `chart/pdf/1000` converts
+//! that SVG to PDF (the SVG drawn once, outside the timing).
 //!
 //! Run: `cargo bench --bench chart -- --warm-up-time 1 --measurement-time 3`
 
@@ -10,8 +11,10 @@ use std::hint::black_box;
 
 use criterion::Criterion;
 use synodic::chart::{
-    render_png, render_svg, synthetic_grid, ChartSpec, Marker, DEFAULT_HEIGHT_PX, DEFAULT_WIDTH_PX,
+    render_png, render_svg, svg_to_pdf, synthetic_grid, ChartSpec, Marker, MarkerFigures,
+    DEFAULT_HEIGHT_PX, DEFAULT_WIDTH_PX,
 };
+use synodic::transfer::TransferType;
 
 /// What the synthetic chart must show (its grid has two C3 bowls either
 /// side of a 180-degree ridge): several C3 isolines, the ridge, the shade
@@ -60,18 +63,17 @@ fn check_once(spec: &ChartSpec<'_>) {
 fn define(c: &mut Criterion) {
     let grid = synthetic_grid(1000);
     let spec = ChartSpec {
-        grid: &grid,
-        layer: 0,
         title: "Teodra → Kesh, 2031 opportunity".to_string(),
         subtitle: "Veyra system (invented)".to_string(),
-        c3_levels: None,
-        vinf_levels: None,
         markers: vec![Marker {
             depart_days: grid.depart.value(400),
             second: grid.second.value(300),
-            label: "marked".to_string(),
+            kind: TransferType::I,
+            name: "marked".to_string(),
+            figures: MarkerFigures::default(),
         }],
         max_c3: Some(20.0),
+        ..ChartSpec::new(&grid)
     };
     check_once(&spec);
     let mut group = c.benchmark_group("chart");
@@ -93,6 +95,14 @@ fn define(c: &mut Criterion) {
                 "PNG size"
             );
             png.len()
+        })
+    });
+    let svg = render_svg(&spec).expect("svg renders");
+    group.bench_function("pdf/1000", |b| {
+        b.iter(|| {
+            let pdf = svg_to_pdf(black_box(&svg)).expect("pdf converts");
+            assert!(pdf.starts_with(b"%PDF-") && pdf.len() > 10_000, "PDF");
+            pdf.len()
         })
     });
     group.finish();

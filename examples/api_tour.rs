@@ -5,7 +5,7 @@
 //!
 //! Figures are preliminary patched-conic design values.
 
-use synodic::chart::{render_svg, ChartSpec, Marker};
+use synodic::chart::{render_svg, ChartSpec, Marker, MarkerFigures};
 use synodic::ephemeris::System;
 use synodic::sweep::{sweep, Axis, Objective, RunOptions, SecondAxis, SweepSpec};
 use synodic::time::Epoch;
@@ -80,18 +80,21 @@ fn main() -> Result<(), synodic::Error> {
         .map(|o| Marker {
             depart_days: o.depart_days,
             second: o.arrive_days - o.depart_days,
-            label: format!("Type {} C3 {:.2}", o.kind, o.value),
+            kind: o.kind,
+            name: format!("Type {}", o.kind),
+            figures: MarkerFigures {
+                c3_km2_s2: Some(o.figures.c3_km2_s2),
+                vinf_arrive_km_s: Some(o.figures.vinf_arrive_km_s),
+                ..MarkerFigures::default()
+            },
         })
         .collect();
     let svg = render_svg(&ChartSpec {
-        grid: &grid,
-        layer: 0,
         title: "Teodra → Kesh".to_string(),
         subtitle: "API tour".to_string(),
-        c3_levels: None,
-        vinf_levels: None,
         markers,
         max_c3: Some(14.0),
+        ..ChartSpec::new(&grid)
     })?;
     std::fs::write("api-tour.svg", svg).map_err(|e| synodic::Error::Other(e.to_string()))?;
     println!("wrote api-tour.svg");

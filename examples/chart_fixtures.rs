@@ -6,7 +6,7 @@
 //! # change; say why in the commit):
 //! cargo run --release --example chart_fixtures -- golden
 //! # Write the sample charts (SVG and PNG at several sizes, every panel,
-//! # a span overview) into DIR to look at:
+//! # a page of two charts, PDFs, a span overview) into DIR to look at:
 //! cargo run --release --example chart_fixtures -- preview DIR
 //! ```
 //!
@@ -22,12 +22,13 @@ use synodic::chart::samples::{
     analytic_grid, analytic_spec, golden_charts, overview_spec, panel_grid,
 };
 use synodic::chart::{
-    date_label_tdb, overview_png, overview_svg, render_panel_png, render_panel_svg, render_png,
-    render_svg, synthetic_grid, ChartSpec, Marker, Panel, DEFAULT_HEIGHT_PX, DEFAULT_WIDTH_PX,
+    overview_pdf, overview_png, overview_svg, page_png, render_panel_png, render_panel_svg,
+    render_png, render_svg, synthetic_grid, Chart, ChartSpec, Marker, MarkerFigures, Panel,
+    DEFAULT_HEIGHT_PX, DEFAULT_WIDTH_PX,
 };
 use synodic::export::write_atomic;
 use synodic::sweep::SecondAxis;
-use synodic::transfer::{Endpoints, ParkingOrbit};
+use synodic::transfer::{Endpoints, ParkingOrbit, TransferType};
 
 const USAGE: &str = "usage: chart_fixtures golden | chart_fixtures preview DIR";
 
@@ -115,27 +116,34 @@ fn main_charts(out: &mut Files) -> Result<(), Box<dyn std::error::Error>> {
     let (i, j) = (best / g.second.count, best % g.second.count);
     let (d, a) = g.dates_days(i, j);
     let s = ChartSpec {
-        grid: &g,
-        layer: 0,
         title: "Teodra → Kesh, 2031 opportunity".to_string(),
         subtitle: "Veyra system (invented) · departures 2031-01-01 to 2032-02-05".to_string(),
-        c3_levels: None,
-        vinf_levels: None,
         markers: vec![Marker {
             depart_days: d,
             second: a,
-            label: format!(
-                "C3 {:.2} · {} → {}",
-                g.c3_km2_s2(best),
-                date_label_tdb(d),
-                date_label_tdb(a)
-            ),
+            kind: TransferType::I,
+            name: "Lowest C3".to_string(),
+            figures: MarkerFigures {
+                c3_km2_s2: Some(g.c3_km2_s2(best)),
+                vinf_arrive_km_s: Some(g.vinf_arrive_km_s[best]),
+                ..MarkerFigures::default()
+            },
         }],
         max_c3: Some(20.0),
+        ..ChartSpec::new(&g)
     };
     out.add("main-synthetic.svg", render_svg(&s)?);
     out.add("main-synthetic.png", render_png(&s, w, h)?);
     out.add("main-synthetic-wide.png", render_png(&s, 2400, 1000)?);
+    // A page: the chart beside its total delta-v panel.
+    let bare = Endpoints::bare();
+    let main = Chart::window(&s)?;
+    let dv = Chart::panel(&s, Panel::DvTotal, &bare)?;
+    out.add(
+        "page-synthetic.png",
+        page_png("Teodra → Kesh, 2031", &[&main, &dv], 2, 2400)?,
+    );
+    out.add("main-synthetic.pdf", main.pdf()?);
     Ok(())
 }
 
@@ -178,5 +186,6 @@ fn overview(out: &mut Files) -> Result<(), Box<dyn std::error::Error>> {
     out.add("overview.svg", overview_svg(&spec)?);
     out.add("overview.png", overview_png(&spec, 1800, 1200)?);
     out.add("overview-900.png", overview_png(&spec, 900, 600)?);
+    out.add("overview.pdf", overview_pdf(&spec)?);
     Ok(())
 }

@@ -34,7 +34,7 @@ const MIN_SIDE_PX: u32 = 200;
 const MAX_SIDE_PX: u32 = 10_000;
 
 /// DejaVu Sans (Bitstream Vera licence; see fonts/LICENSE-DejaVu.txt).
-static FONT_TTF: &[u8] = include_bytes!("fonts/DejaVuSans.ttf");
+pub(crate) static FONT_TTF: &[u8] = include_bytes!("fonts/DejaVuSans.ttf");
 
 /// Registers the embedded font with plotters under [`FONT_FAMILY`], once
 /// per process.

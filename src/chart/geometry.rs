@@ -365,32 +365,48 @@ impl Placer {
 
     /// A `(w, h)` box beside the marker at `(x, y)`: above right, below
     /// right, above left, below left, centred above, centred below,
-    /// whichever is free first.
+    /// whichever is free first; then the same farther out (2.5 and 5
+    /// gaps), each shifted to lie within the bounds.
     pub(crate) fn beside_point(
         &mut self,
         (x, y): (f64, f64),
         (bw, bh): (f64, f64),
         k: f64,
     ) -> Option<Rect> {
-        let g = MARKER_BOX_GAP_PX * k;
         let extra = MARKER_BOX_EXTRA_GAP_PX * k;
-        let candidates = [
-            (x + g, y - g - bh),
-            (x + g, y + g),
-            (x - g - bw, y - g - bh),
-            (x - g - bw, y + g),
-            (x - bw / 2.0, y - g - extra - bh),
-            (x - bw / 2.0, y + g + extra),
-        ];
-        candidates.into_iter().find_map(|(x0, y0)| {
-            let r = Rect {
-                x0,
-                y0,
-                x1: x0 + bw,
-                y1: y0 + bh,
-            };
-            self.try_take(r).then_some(r)
-        })
+        let b = self.bounds;
+        for (ring, reach) in [1.0, 2.5, 5.0].into_iter().enumerate() {
+            let g = MARKER_BOX_GAP_PX * k * reach;
+            let candidates = [
+                (x + g, y - g - bh),
+                (x + g, y + g),
+                (x - g - bw, y - g - bh),
+                (x - g - bw, y + g),
+                (x - bw / 2.0, y - g - extra - bh),
+                (x - bw / 2.0, y + g + extra),
+            ];
+            for (x0, y0) in candidates {
+                let (x0, y0) = if ring > 0 {
+                    (x0.min(b.x1 - bw).max(b.x0), y0.min(b.y1 - bh).max(b.y0))
+                } else {
+                    (x0, y0)
+                };
+                let r = Rect {
+                    x0,
+                    y0,
+                    x1: x0 + bw,
+                    y1: y0 + bh,
+                };
+                // A shifted box still leaves the marker clear.
+                let m = MARKER_BOX_GAP_PX * k * 0.5;
+                let clear =
+                    ring == 0 || !(x > r.x0 - m && x < r.x1 + m && y > r.y0 - m && y < r.y1 + m);
+                if clear && self.try_take(r) {
+                    return Some(r);
+                }
+            }
+        }
+        None
     }
 
     /// The centre of a `(w, h)` box on the segment `a`-`b`, tried from

@@ -1,11 +1,20 @@
-//! Contour levels: automatic "nice" ladders, or an explicit list.
+//! Contour levels: automatic "nice" ladders, or an explicit list fitted
+//! to the data.
 //!
 //! A transfer-window field is a bowl: low and flat around the window,
 //! steep far from it. Evenly spaced levels either miss the window's shape
 //! or pile up into a dark band far away. The automatic ladder therefore
-//! starts just above the field's minimum with a small round step and widens
-//! the step along the 1-2-5 sequence every two levels, stopping at a
-//! quantile of the field so that the steep outskirts stay readable.
+//! starts at least half a small round step above the field's minimum and widens the
+//! step along the 1-2-5 sequence every two levels, up to the lowest of
+//!
+//! * [`TOP_MULTIPLE`] times the minimum (for C3, v-infinity and delta-v,
+//!   the range a design trade looks at: common practice, no source),
+//! * the field's 60 % quantile (so that the steep outskirts of a small
+//!   grid stay readable),
+//!
+//! but never below a twentieth of the way from the minimum to that quantile
+//! (a minimum near zero would otherwise leave no room), and never more
+//! than [`MAX_C3_LINES`] lines.
 
 /// Most C3 lines an automatic ladder draws.
 pub const MAX_C3_LINES: usize = 12;
@@ -14,9 +23,17 @@ pub const MAX_C3_LINES: usize = 12;
 /// C3: they are an overlay).
 pub const MAX_VINF_LINES: usize = 8;
 
-/// Fraction of the field's samples that the automatic ladder covers: its
-/// top level is at most this quantile.
+/// The automatic ladder stops at this multiple of the field's minimum
+/// (when the minimum is positive).
+pub const TOP_MULTIPLE: f64 = 4.0;
+
+/// Fraction of the field's samples that the automatic ladder covers at
+/// most: its top level is at most this quantile.
 const COVER_QUANTILE: f64 = 0.6;
+
+/// The ladder reaches at least this fraction of the way from the minimum
+/// to the quantile.
+const FLOOR_FRACTION: f64 = 0.05;
 
 /// Levels taken at each step size before the step widens.
 const LEVELS_PER_STEP: usize = 2;
@@ -56,15 +73,16 @@ fn snap(v: f64, step: f64) -> f64 {
 }
 
 /// An automatic ladder of at most `max_lines` levels for `values` (NaN
-/// ignored): nice round numbers above the minimum, denser near it.
+/// ignored): nice round numbers above the minimum, denser near it, up to
+/// the top the module docs describe.
 ///
 /// Empty when there are no finite values, the field is flat, or
 /// `max_lines` is 0.
 ///
 /// # Properties
 /// Levels are finite, strictly increasing, all above the minimum and at
-/// most the field's 60 % quantile (the first level is always drawn when
-/// the field is not flat); successive gaps never shrink.
+/// most the top (the first level is always drawn when the field is not
+/// flat); successive gaps never shrink.
 pub fn auto_levels(values: impl IntoIterator<Item = f64>, max_lines: usize) -> Vec<f64> {
     let mut v: Vec<f64> = values.into_iter().filter(|x| x.is_finite()).collect();
     if v.is_empty() || max_lines == 0 {
@@ -72,25 +90,36 @@ pub fn auto_levels(values: impl IntoIterator<Item = f64>, max_lines: usize) -> V
     }
     let k = ((v.len() - 1) as f64 * COVER_QUANTILE).round() as usize;
     let (_, q, _) = v.select_nth_unstable_by(k, f64::total_cmp);
-    let top = *q;
+    let quantile = *q;
     let min = v.iter().copied().fold(f64::INFINITY, f64::min);
     let max = v.iter().copied().fold(f64::NEG_INFINITY, f64::max);
-    let span = top - min;
-    if span <= 0.0 || span.is_nan() {
+    if quantile <= min {
         // Quantile at the minimum (a mostly flat field): use the full range.
         if max > min {
             return auto_from(min, max, max_lines);
         }
         return Vec::new();
     }
-    auto_from(min, top, max_lines)
+    auto_from(min, ladder_top(min, quantile), max_lines)
+}
+
+/// The top of the automatic ladder for a field with minimum `min` and
+/// 60 % quantile `quantile` (> `min`).
+fn ladder_top(min: f64, quantile: f64) -> f64 {
+    let floor = min + FLOOR_FRACTION * (quantile - min);
+    if min > 0.0 {
+        quantile.min((TOP_MULTIPLE * min).max(floor))
+    } else {
+        quantile
+    }
 }
 
 fn auto_from(min: f64, top: f64, max_lines: usize) -> Vec<f64> {
     let mut step = nice_ceil((top - min) / FINEST_DIVISIONS);
     let mut out: Vec<f64> = Vec::new();
     let mut at_step = 0;
-    let mut last = min;
+    // The first level sits at least half a step above the minimum.
+    let mut last = min + 0.5 * step - step * 1e-9;
     while out.len() < max_lines {
         // Smallest multiple of the step strictly above the last level.
         let mut next = snap(((last / step).floor() + 1.0) * step, step);
@@ -168,11 +197,34 @@ pub fn vinf_levels(vinf_km_s: impl IntoIterator<Item = f64>) -> Vec<f64> {
 
 /// An explicit list made usable: non-finite entries dropped, sorted
 /// ascending, duplicates removed.
+///
+/// [`fit_levels`] then sets aside those outside the data.
 pub fn explicit_levels(levels: &[f64]) -> Vec<f64> {
     let mut v: Vec<f64> = levels.iter().copied().filter(|x| x.is_finite()).collect();
     v.sort_by(f64::total_cmp);
     v.dedup_by(|a, b| (*a - *b).abs() <= 1e-12 * (1.0 + b.abs()));
     v
+}
+
+/// `levels` split into those inside the range of the finite `values`
+/// (strictly between the minimum and the maximum, where a line can be
+/// drawn) and those outside, with the range (`None` without finite
+/// values, when every level is outside).
+pub fn fit_levels(
+    levels: &[f64],
+    values: impl IntoIterator<Item = f64>,
+) -> (Vec<f64>, Vec<f64>, Option<(f64, f64)>) {
+    let (min, max) = values
+        .into_iter()
+        .filter(|x| x.is_finite())
+        .fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), x| {
+            (a.min(x), b.max(x))
+        });
+    let range = (min <= max).then_some((min, max));
+    let (inside, outside) = levels
+        .iter()
+        .partition(|&&l| range.is_some_and(|(lo, hi)| l > lo && l < hi));
+    (inside, outside, range)
 }
 
 /// A level as printed on a chart: at most three decimals, trailing zeros
@@ -242,6 +294,45 @@ mod tests {
         assert!(*l.last().expect("levels") <= q + 1e-9);
         // The window itself gets lines: the first is within 1 of the minimum.
         assert!(l[0] - 9.12 <= 1.0 + 1e-9, "{l:?}");
+    }
+
+    #[test]
+    fn ladder_stops_at_a_multiple_of_the_minimum_on_a_steep_field() {
+        // A fine grid reaching far from the window: a bowl from 12 that
+        // climbs past 600 in the corners. The ladder covers the window
+        // (from just above 12 to at most 4 x 12 = 48) instead of bundles
+        // of lines out to the quantile (about 280 here).
+        let v: Vec<f64> = (0..400)
+            .flat_map(|i| {
+                (0..400).map(move |j| {
+                    let x = (f64::from(i) - 200.0) / 40.0;
+                    let y = (f64::from(j) - 200.0) / 40.0;
+                    12.0 + 24.0 * (x * x + y * y)
+                })
+            })
+            .collect();
+        let l = c3_levels(v.iter().copied());
+        check_ladder(&l, &v, MAX_C3_LINES);
+        assert!(*l.last().expect("levels") <= TOP_MULTIPLE * 12.0, "{l:?}");
+        assert!(l.len() >= 5, "{l:?}");
+        assert!(l[0] > 12.0 && l[0] <= 14.0, "{l:?}");
+        // A minimum near zero still gets a ladder: a twentieth of the way
+        // to the quantile (about 460) at least.
+        let v: Vec<f64> = v.iter().map(|c| c - 11.99).collect();
+        let l = c3_levels(v.iter().copied());
+        assert!(l.len() >= 5 && *l.last().expect("levels") >= 20.0, "{l:?}");
+    }
+
+    #[test]
+    fn levels_outside_the_data_are_set_aside() {
+        let v = [12.5, f64::NAN, 30.0, 95.25];
+        let (inside, outside, range) = fit_levels(&[10.0, 12.5, 16.0, 90.0, 100.0], v);
+        assert_eq!(inside, vec![16.0, 90.0]);
+        assert_eq!(outside, vec![10.0, 12.5, 100.0]);
+        assert_eq!(range, Some((12.5, 95.25)));
+        let (inside, outside, range) = fit_levels(&[1.0], [f64::NAN]);
+        assert!(inside.is_empty() && range.is_none());
+        assert_eq!(outside, vec![1.0]);
     }
 
     #[test]

@@ -1,61 +1,75 @@
-//! The span overview: the best C3 and arrival v-infinity of every
-//! opportunity against its departure date, one series per Type.
+//! The span overview: the best transfer of every opportunity and Type
+//! against its departure date, C3 above arrival v-infinity.
+//!
+//! Each opportunity is a point of its own (Type I a circle, Type II a
+//! triangle; hollow when flagged), never joined to the next one by a line:
+//! opportunities are separate windows, not samples of one curve. The
+//! departure axis spans the scanned span exactly, with year ticks over
+//! spans of years. The legend, beside each plot, lists every shape and
+//! line drawn and which flags the hollow points carry.
 
-use plotters::coord::types::RangedCoordf64;
 use plotters::coord::Shift;
 use plotters::prelude::*;
+use plotters::style::text_anchor::{HPos, VPos};
 
-use super::calendar::date_label_tdb;
-use super::encode::{self, check_size, ensure_font};
-use super::style::{C3_RGB, CAPTION, FONT_FAMILY, GRIDLINE_RGB, INK, LIMIT_RGB, MUTED, VINF_RGB};
+use super::encode::{self, check_size, ensure_font, SUPERSAMPLE};
+use super::geometry::{Map, Rect};
+use super::legend::{legend_box, Row, Sample};
+use super::levels::format_level;
+use super::pdf::svg_to_pdf;
+use super::pen::{MarkerLook, Pen};
+use super::style::{AXIS_TITLE_TEXT_PX, C3_RGB, INK, LIMIT_RGB, PAPER, VINF_RGB};
+use super::ticks::{date_ticks, number_ticks};
 use super::{draw_err, ChartError};
+use crate::sweep::Objective;
 use crate::transfer::TransferType;
 
 /// The overview's size as SVG, px (3:2, the width of the main chart);
 /// its PNG may have any size and scales from this one.
-const OVERVIEW_WIDTH_PX: u32 = 1800;
+const OVERVIEW_WIDTH_PX: f64 = 1800.0;
 /// The overview's SVG height, px.
-const OVERVIEW_HEIGHT_PX: u32 = 1200;
+const OVERVIEW_HEIGHT_PX: f64 = 1200.0;
 
-// Layout at 1800 px wide, logical px (chosen by eye; no source).
-/// Left edge of the headings; the caption's baseline is as far above the
-/// bottom.
+// Layout at 1800 x 1200, logical px (chosen by eye; no source).
+/// Left edge of the headings and of the caption.
 const HEADING_LEFT_PX: f64 = 40.0;
 /// Top of the title.
-const TITLE_TOP_PX: f64 = 22.0;
+const TITLE_TOP_PX: f64 = 24.0;
 /// Top of the subtitle.
-const SUBTITLE_TOP_PX: f64 = 66.0;
-/// Margins of the two plots' area: top (below the headings), bottom
-/// (above the caption), left, right.
-const BODY_MARGINS_PX: (f64, f64, f64, f64) = (110.0, 70.0, 20.0, 40.0);
-/// Margin around each plot.
-const PLOT_MARGIN_PX: f64 = 12.0;
-/// Height of the date labels' band under each plot.
-const X_LABEL_AREA_PX: f64 = 48.0;
-/// Width of the value labels' band left of each plot.
-const Y_LABEL_AREA_PX: f64 = 90.0;
-/// Title text.
-const TITLE_TEXT_PX: f64 = 34.0;
-/// Subtitle text.
-const SUBTITLE_TEXT_PX: f64 = 22.0;
-/// Axis titles.
-const AXIS_TITLE_TEXT_PX: f64 = 19.0;
-/// Tick labels, the series legend and the caption.
-const LABEL_TEXT_PX: f64 = 17.0;
-/// Stroke of the series lines.
-const SERIES_STROKE_PX: f64 = 1.5;
-/// Stroke of the limit line, the legend samples and hollow markers.
-const HEAVY_STROKE_PX: f64 = 2.0;
-/// Length of a legend sample line.
-const LEGEND_SAMPLE_PX: f64 = 30.0;
-/// Radius of a Type I circle (a Type II triangle is 2 backend px larger).
-const MARKER_RADIUS_PX: f64 = 6.0;
-/// The departure axis spans at least this many days, so that a single
-/// optimum has room.
+const SUBTITLE_TOP_PX: f64 = 72.0;
+/// Bottom of the caption from the image's bottom edge.
+const CAPTION_BOTTOM_PX: f64 = 22.0;
+/// The plots' left and right edges.
+const PLOT_X_PX: (f64, f64) = (150.0, 1370.0);
+/// The top plot's top and bottom edges.
+const TOP_PLOT_Y_PX: (f64, f64) = (130.0, 560.0);
+/// The bottom plot's top and bottom edges.
+const BOTTOM_PLOT_Y_PX: (f64, f64) = (650.0, 1080.0);
+/// The legends' left edge right of the plots, and right edge from the
+/// image's right edge.
+const LEGEND_GAPS_PX: (f64, f64) = (30.0, 26.0);
+/// Centre of the (rotated) value-axis titles from the left edge.
+const Y_TITLE_X_PX: f64 = 36.0;
+/// Top of the departure-axis title below the bottom plot.
+const X_TITLE_BELOW_PLOT_PX: f64 = 46.0;
+/// At most one date tick per this much plot width.
+const X_TICK_SPACING_PX: f64 = 140.0;
+/// At most one value tick per this much plot height.
+const Y_TICK_SPACING_PX: f64 = 70.0;
+/// Radius of a point (a triangle has the same area).
+const POINT_RADIUS_PX: f64 = 8.0;
+/// Outline of a point.
+const POINT_STROKE_PX: f64 = 2.0;
+/// Stroke of the C3 ceiling line.
+const LIMIT_STROKE_PX: f64 = 2.2;
+/// Type II points are drawn this much lighter (mixed with white).
+const TYPE_II_LIGHTEN: f64 = 0.4;
+/// Without a span, the departure axis spans at least this many days, so
+/// that a single optimum has room.
 const MIN_SPAN_DAYS: f64 = 180.0;
 
 /// One optimum on the overview.
-#[derive(Debug, Clone, Copy, PartialEq)]
+#[derive(Debug, Clone, PartialEq)]
 pub struct OverviewPoint {
     /// Departure, days past J2000 TDB.
     pub depart_days: f64,
@@ -65,8 +79,9 @@ pub struct OverviewPoint {
     pub c3_km2_s2: f64,
     /// Arrival v-infinity, km/s.
     pub vinf_arrive_km_s: f64,
-    /// Flagged (ridge, edge or over a limit): drawn hollow.
-    pub flagged: bool,
+    /// The row's flags as the tables name them (`ridge`, `edge`,
+    /// `over-limit`, ...); a flagged point is drawn hollow.
+    pub flags: Vec<String>,
 }
 
 /// What the overview shows.
@@ -80,10 +95,15 @@ pub struct OverviewSpec {
     pub points: Vec<OverviewPoint>,
     /// Launch-vehicle C3 ceiling drawn as a line, km^2/s^2.
     pub max_c3: Option<f64>,
+    /// The span scanned, days past J2000 TDB: the departure axis spans it
+    /// exactly. `None`: the points' range, padded.
+    pub span_days: Option<(f64, f64)>,
+    /// What "best" means for the points, named in the legend.
+    pub objective: Option<Objective>,
 }
 
 /// The range of the finite values, padded by 8 % of its width (at least
-/// 5 % of the upper end's magnitude, and at least 0.05) so that markers
+/// 5 % of the upper end's magnitude, and at least 0.05) so that points
 /// clear the frame.
 fn bounds(v: impl Iterator<Item = f64>) -> Option<(f64, f64)> {
     let (lo, hi) = v
@@ -97,195 +117,245 @@ fn bounds(v: impl Iterator<Item = f64>) -> Option<(f64, f64)> {
     })
 }
 
-/// One of the overview's two plots: axis label, colour, the value plotted,
-/// an optional limit line.
+/// The departure axis: the span when given (and not empty), else the
+/// points' padded range, at least [`MIN_SPAN_DAYS`] wide.
+fn x_span(spec: &OverviewSpec) -> Option<(f64, f64)> {
+    if let Some((a, b)) = spec.span_days {
+        if a.is_finite() && b.is_finite() && b > a {
+            return Some((a, b));
+        }
+    }
+    let (x0, x1) = bounds(spec.points.iter().map(|p| p.depart_days))?;
+    let mid = (x0 + x1) / 2.0;
+    let half = ((x1 - x0) / 2.0).max(MIN_SPAN_DAYS / 2.0);
+    Some((mid - half, mid + half))
+}
+
+/// One of the overview's two plots.
 struct Quantity {
     label: &'static str,
     colour: RGBColor,
     value: fn(&OverviewPoint) -> f64,
     limit: Option<f64>,
+    plot: Rect,
 }
 
-/// The overview's plotting surface.
-type Plot<'a, DB> = ChartContext<'a, DB, Cartesian2d<RangedCoordf64, RangedCoordf64>>;
-
-/// `v` logical px (at 1800 px wide) in backend px.
-fn px(v: f64, s: f64) -> i32 {
-    (v * s).round() as i32
+/// `c` mixed with white by `t` (0 = `c`).
+fn lighter(c: RGBColor, t: f64) -> RGBColor {
+    let mix = |v: u8| (f64::from(v) + (255.0 - f64::from(v)) * t).round() as u8;
+    RGBColor(mix(c.0), mix(c.1), mix(c.2))
 }
 
-/// The chart font at `size` logical px.
-fn font(size: f64, s: f64) -> FontDesc<'static> {
-    (FONT_FAMILY, size * s).into_font()
+/// A point's look: shape by Type, colour by quantity (Type II lighter),
+/// hollow when flagged.
+fn look(kind: TransferType, colour: RGBColor, flagged: bool) -> MarkerLook {
+    let c = match kind {
+        TransferType::I => colour,
+        TransferType::II => lighter(colour, TYPE_II_LIGHTEN),
+    };
+    MarkerLook {
+        kind,
+        fill: Some(if flagged { PAPER } else { c }),
+        edge: c,
+        edge_px: POINT_STROKE_PX,
+    }
 }
 
-/// Draws the overview on `area`, `s` backend px per logical px: headings,
-/// then C3 above arrival v-infinity against the departure date.
+/// The distinct flags of the points, in order of first appearance.
+fn flag_names(points: &[OverviewPoint]) -> Vec<&str> {
+    let mut out: Vec<&str> = Vec::new();
+    for f in points.iter().flat_map(|p| &p.flags) {
+        if !out.contains(&f.as_str()) {
+            out.push(f);
+        }
+    }
+    out
+}
+
+/// The objective as the legend names it, capitalised.
+fn objective_text(o: Objective) -> &'static str {
+    match o {
+        Objective::C3 => "Best C3",
+        Objective::VinfArrive => "Best arrival v∞",
+        Objective::DvTotal => "Best total Δv",
+        Objective::C3PlusVinf => "Best C3 + v∞²",
+    }
+}
+
+/// Draws the overview on `area`, `k` logical px per reference px and `s`
+/// backend px per logical px.
 fn draw<DB: DrawingBackend>(
     area: &DrawingArea<DB, Shift>,
     spec: &OverviewSpec,
+    k: f64,
     s: f64,
 ) -> Result<(), ChartError> {
-    area.fill(&WHITE).map_err(draw_err)?;
-    headings(area, spec, s)?;
-    let (top, bottom, left, right) = BODY_MARGINS_PX;
-    let body = area.margin(px(top, s), px(bottom, s), px(left, s), px(right, s));
-    let panels = body.split_evenly((2, 1));
-    let Some((x0, x1)) = bounds(spec.points.iter().map(|p| p.depart_days)) else {
-        return Err(ChartError::GridTooSmall { nx: 0, ny: 0 });
+    let span = match x_span(spec) {
+        Some(span) if !spec.points.is_empty() => span,
+        _ => return Err(ChartError::NothingToPlot),
     };
-    let x_span = (x0.min(x1 - MIN_SPAN_DAYS), x1.max(x0 + MIN_SPAN_DAYS));
+    area.fill(&PAPER).map_err(draw_err)?;
+    let pen = Pen {
+        area,
+        s,
+        k,
+        native_dash: false,
+    };
+    headings(&pen, spec)?;
+    let rect = |(x0, x1): (f64, f64), (y0, y1): (f64, f64)| Rect {
+        x0: x0 * k,
+        y0: y0 * k,
+        x1: x1 * k,
+        y1: y1 * k,
+    };
     let quantities = [
         Quantity {
             label: "Departure C3, km²/s²",
             colour: C3_RGB,
             value: |p| p.c3_km2_s2,
-            limit: spec.max_c3,
+            limit: spec.max_c3.filter(|m| m.is_finite()),
+            plot: rect(PLOT_X_PX, TOP_PLOT_Y_PX),
         },
         Quantity {
             label: "Arrival v∞, km/s",
             colour: VINF_RGB,
             value: |p| p.vinf_arrive_km_s,
             limit: None,
+            plot: rect(PLOT_X_PX, BOTTOM_PLOT_Y_PX),
         },
     ];
-    for (panel, q) in panels.iter().zip(quantities.iter()) {
-        plot_quantity(panel, spec, q, x_span, s)?;
+    for (n, q) in quantities.iter().enumerate() {
+        plot_quantity(&pen, spec, q, span, n == 1)?;
     }
     Ok(())
 }
 
 /// Title, subtitle and caption.
-fn headings<DB: DrawingBackend>(
-    area: &DrawingArea<DB, Shift>,
-    spec: &OverviewSpec,
-    s: f64,
-) -> Result<(), ChartError> {
-    let (_, h) = area.dim_in_pixel();
-    area.draw(&Text::new(
-        spec.title.clone(),
-        (px(HEADING_LEFT_PX, s), px(TITLE_TOP_PX, s)),
-        font(TITLE_TEXT_PX, s).color(&INK),
-    ))
-    .map_err(draw_err)?;
-    area.draw(&Text::new(
-        spec.subtitle.clone(),
-        (px(HEADING_LEFT_PX, s), px(SUBTITLE_TOP_PX, s)),
-        font(SUBTITLE_TEXT_PX, s).color(&MUTED),
-    ))
-    .map_err(draw_err)?;
-    area.draw(&Text::new(
-        CAPTION,
-        (px(HEADING_LEFT_PX, s), h as i32 - px(HEADING_LEFT_PX, s)),
-        font(LABEL_TEXT_PX, s).color(&MUTED),
-    ))
-    .map_err(draw_err)
+fn headings<DB: DrawingBackend>(pen: &Pen<'_, DB>, spec: &OverviewSpec) -> Result<(), ChartError> {
+    let k = pen.k;
+    pen.headings(
+        (&spec.title, &spec.subtitle),
+        HEADING_LEFT_PX * k,
+        (TITLE_TOP_PX * k, SUBTITLE_TOP_PX * k),
+        (OVERVIEW_HEIGHT_PX - CAPTION_BOTTOM_PX) * k,
+    )
 }
 
-/// One quantity against the departure date: axes, the limit line, a
-/// series per Type, the series legend.
+/// One quantity against the departure date: grid, frame, ticks, the
+/// limit line, the points, the legend.
 fn plot_quantity<DB: DrawingBackend>(
-    panel: &DrawingArea<DB, Shift>,
+    pen: &Pen<'_, DB>,
     spec: &OverviewSpec,
     q: &Quantity,
-    x_span: (f64, f64),
-    s: f64,
+    span: (f64, f64),
+    bottom: bool,
 ) -> Result<(), ChartError> {
+    let k = pen.k;
+    let plot = q.plot;
     let Some((y0, mut y1)) = bounds(spec.points.iter().map(q.value)) else {
         return Ok(());
     };
-    if q.limit.is_some() {
-        // Room above the limit line.
-        y1 = y1.max(spec.max_c3.unwrap_or(f64::NEG_INFINITY) * 1.05);
-    }
-    let mut chart = ChartBuilder::on(panel)
-        .margin(px(PLOT_MARGIN_PX, s))
-        .x_label_area_size(px(X_LABEL_AREA_PX, s))
-        .y_label_area_size(px(Y_LABEL_AREA_PX, s))
-        .build_cartesian_2d(x_span.0..x_span.1, y0..y1)
-        .map_err(draw_err)?;
-    chart
-        .configure_mesh()
-        .light_line_style(GRIDLINE_RGB)
-        .bold_line_style(GRIDLINE_RGB)
-        .axis_style(INK)
-        .x_labels(8)
-        .y_labels(6)
-        .x_label_formatter(&|d| date_label_tdb(*d))
-        .y_desc(q.label)
-        .x_desc("Departure date (TDB)")
-        .label_style(font(LABEL_TEXT_PX, s).color(&INK))
-        .axis_desc_style(font(AXIS_TITLE_TEXT_PX, s).color(&INK))
-        .draw()
-        .map_err(draw_err)?;
     if let Some(m) = q.limit {
-        let style = LIMIT_RGB.stroke_width(px(HEAVY_STROKE_PX, s) as u32);
-        chart
-            .draw_series(LineSeries::new([(x_span.0, m), (x_span.1, m)], style))
-            .map_err(draw_err)?
-            .label(format!("C3 ceiling {m}"))
-            .legend(move |(x, y)| {
-                PathElement::new([(x, y), (x + px(LEGEND_SAMPLE_PX, s), y)], style)
-            });
+        // Room above the limit line.
+        y1 = y1.max(m * 1.05);
     }
-    for kind in [TransferType::I, TransferType::II] {
-        type_series(&mut chart, spec, q, kind, s)?;
+    let map = Map {
+        xmin: span.0,
+        xmax: span.1,
+        ymin: y0,
+        ymax: y1,
+        plot,
+    };
+    let xt = date_ticks(
+        span.0,
+        span.1,
+        ((plot.x1 - plot.x0) / (X_TICK_SPACING_PX * k)) as usize,
+    );
+    let yt = number_ticks(
+        y0,
+        y1,
+        ((plot.y1 - plot.y0) / (Y_TICK_SPACING_PX * k)) as usize,
+    );
+    pen.gridlines(&map, &xt.at, &yt)?;
+    let x: Vec<(f64, String)> = xt.at.iter().map(|&t| (t, xt.label(t))).collect();
+    let y: Vec<(f64, String)> = yt.iter().map(|&t| (t, format_level(t))).collect();
+    pen.frame_and_ticks(&map, &x, &y)?;
+    pen.text_up(
+        q.label,
+        (Y_TITLE_X_PX * k, (plot.y0 + plot.y1) / 2.0),
+        AXIS_TITLE_TEXT_PX,
+        &INK,
+    )?;
+    if bottom {
+        pen.text(
+            "Departure date (TDB)",
+            (
+                (plot.x0 + plot.x1) / 2.0,
+                plot.y1 + X_TITLE_BELOW_PLOT_PX * k,
+            ),
+            AXIS_TITLE_TEXT_PX,
+            &INK,
+            (HPos::Center, VPos::Top),
+        )?;
     }
-    chart
-        .configure_series_labels()
-        .background_style(WHITE.mix(0.9))
-        .border_style(MUTED)
-        .label_font(font(LABEL_TEXT_PX, s).color(&INK))
-        .position(SeriesLabelPosition::UpperRight)
-        .draw()
-        .map_err(draw_err)
+    if let Some(m) = q.limit {
+        let y = map.py(m);
+        pen.line(
+            &[(plot.x0, y), (plot.x1, y)],
+            LIMIT_RGB,
+            LIMIT_STROKE_PX,
+            None,
+        )?;
+    }
+    let mut points: Vec<&OverviewPoint> = spec.points.iter().collect();
+    // Type I over Type II, unflagged over flagged.
+    points.sort_by_key(|p| (p.kind == TransferType::I, p.flags.is_empty()));
+    for p in points {
+        let (x, y) = (map.px(p.depart_days), map.py((q.value)(p)));
+        if x.is_finite() && y.is_finite() && x >= plot.x0 && x <= plot.x1 {
+            let l = look(p.kind, q.colour, !p.flags.is_empty());
+            pen.marker((x, y), POINT_RADIUS_PX * k, l)?;
+        }
+    }
+    let rows = legend_rows(spec, q);
+    let note = (!bottom)
+        .then(|| {
+            spec.objective
+                .map(|o| format!("{} per opportunity and Type", objective_text(o)))
+        })
+        .flatten();
+    let x0 = plot.x1 + LEGEND_GAPS_PX.0 * k;
+    let x1 = OVERVIEW_WIDTH_PX * k - LEGEND_GAPS_PX.1 * k;
+    legend_box(pen, (x0, plot.y0, x1), &rows, note.as_deref())?;
+    Ok(())
 }
 
-/// The optima of one Type joined in departure order, Type I as circles
-/// and Type II as triangles, flagged ones hollow.
-fn type_series<DB: DrawingBackend>(
-    chart: &mut Plot<'_, DB>,
-    spec: &OverviewSpec,
-    q: &Quantity,
-    kind: TransferType,
-    s: f64,
-) -> Result<(), ChartError> {
-    let value = q.value;
-    let mut pts: Vec<&OverviewPoint> = spec.points.iter().filter(|p| p.kind == kind).collect();
-    pts.sort_by(|a, b| a.depart_days.total_cmp(&b.depart_days));
-    // Type II in the same hue, lighter.
-    let style = q
-        .colour
-        .mix(if kind == TransferType::I { 1.0 } else { 0.55 });
-    chart
-        .draw_series(LineSeries::new(
-            pts.iter().map(|p| (p.depart_days, value(p))),
-            style.stroke_width(px(SERIES_STROKE_PX, s).max(1) as u32),
-        ))
-        .map_err(draw_err)?
-        .label(format!("Type {kind}"))
-        .legend(move |(x, y)| {
-            PathElement::new(
-                [(x, y), (x + px(LEGEND_SAMPLE_PX, s), y)],
-                style.stroke_width(px(HEAVY_STROKE_PX, s) as u32),
-            )
-        });
-    for p in pts {
-        let at = (p.depart_days, value(p));
-        let r = px(MARKER_RADIUS_PX, s).max(2) as u32;
-        let look = if p.flagged {
-            style.stroke_width(px(HEAVY_STROKE_PX, s) as u32)
-        } else {
-            style.filled()
-        };
-        let mk = if kind == TransferType::I {
-            Circle::new(at, r, look).into_dyn()
-        } else {
-            TriangleMarker::new(at, r + 2, look).into_dyn()
-        };
-        chart.draw_series(std::iter::once(mk)).map_err(draw_err)?;
+/// The legend of one plot: the shapes drawn, what hollow means, the
+/// ceiling.
+fn legend_rows(spec: &OverviewSpec, q: &Quantity) -> Vec<Row> {
+    let mut rows = Vec::new();
+    for kind in [TransferType::I, TransferType::II] {
+        if spec.points.iter().any(|p| p.kind == kind) {
+            rows.push(Row::new(
+                Sample::Marker(look(kind, q.colour, false), POINT_RADIUS_PX),
+                format!("Type {kind}"),
+            ));
+        }
     }
-    Ok(())
+    let flags = flag_names(&spec.points);
+    if !flags.is_empty() {
+        rows.push(Row::new(
+            Sample::Marker(look(TransferType::I, q.colour, true), POINT_RADIUS_PX),
+            format!("Hollow: flagged {}", flags.join(", ")),
+        ));
+    }
+    if let Some(m) = q.limit {
+        rows.push(Row::new(
+            Sample::Line(LIMIT_RGB, LIMIT_STROKE_PX, None),
+            format!("C3 ceiling {} km²/s²", format_level(m)),
+        ));
+    }
+    rows
 }
 
 /// The overview as SVG (1800 x 1200; text stays text).
@@ -294,12 +364,15 @@ fn type_series<DB: DrawingBackend>(
 /// [`ChartError`] when there is nothing to plot or drawing fails.
 pub fn overview_svg(spec: &OverviewSpec) -> Result<String, ChartError> {
     ensure_font()?;
-    encode::svg(OVERVIEW_WIDTH_PX, OVERVIEW_HEIGHT_PX, |area| {
-        draw(area, spec, 1.0)
-    })
+    encode::svg(
+        OVERVIEW_WIDTH_PX as u32,
+        OVERVIEW_HEIGHT_PX as u32,
+        |area| draw(area, spec, 1.0, 1.0),
+    )
 }
 
 /// The overview as PNG bytes, drawn at twice the size and box-filtered.
+/// The layout scales with the width; the height should keep the 3:2 shape.
 ///
 /// # Errors
 /// [`ChartError`] for a bad size, nothing to plot, or a drawing or
@@ -311,8 +384,19 @@ pub fn overview_png(
 ) -> Result<Vec<u8>, ChartError> {
     check_size(width_px, height_px)?;
     ensure_font()?;
-    let s = f64::from(encode::SUPERSAMPLE) * f64::from(width_px) / f64::from(OVERVIEW_WIDTH_PX);
-    encode::png(width_px, height_px, |area| draw(area, spec, s))
+    let k =
+        (f64::from(width_px) / OVERVIEW_WIDTH_PX).min(f64::from(height_px) / OVERVIEW_HEIGHT_PX);
+    encode::png(width_px, height_px, |area| {
+        draw(area, spec, k, f64::from(SUPERSAMPLE))
+    })
+}
+
+/// The overview as a one-page PDF (12 x 8 in).
+///
+/// # Errors
+/// As [`overview_svg`]; [`ChartError::Pdf`] if the conversion fails.
+pub fn overview_pdf(spec: &OverviewSpec) -> Result<Vec<u8>, ChartError> {
+    svg_to_pdf(&overview_svg(spec)?)
 }
 
 #[cfg(test)]
@@ -322,21 +406,53 @@ mod tests {
     use crate::chart::samples::overview_spec as spec;
 
     #[test]
-    fn overview_svg_has_both_panels_and_labels() {
+    fn overview_svg_has_both_plots_and_a_complete_legend() {
         let svg = overview_svg(&spec()).expect("renders");
         assert!(svg.starts_with("<svg"));
         for t in [
-            "Departure C3",
-            "Arrival v∞",
+            "Departure C3, km²/s²",
+            "Arrival v∞, km/s",
             "Type I",
             "Type II",
-            "C3 ceiling 11",
+            "C3 ceiling 11 km²/s²",
+            "Hollow: flagged edge",
+            "Best C3 per opportunity and Type",
             "Teodra → Kesh, 2030-2040",
         ] {
             assert!(svg.contains(t), "missing {t}");
         }
-        // Ten optima in two panels: at least twenty markers.
-        assert!(svg.matches("<circle").count() >= 10, "circles");
+        // Year ticks only (the span is 2030-2040), never a full date.
+        assert!(
+            svg.contains(">\n2032\n<") || svg.contains(">2032<"),
+            "year tick"
+        );
+        assert!(!svg.contains("-01-01"), "dates on a span of years");
+        // No line joins two opportunities: every polyline runs straight
+        // across or up (grid lines, frame, ticks, the ceiling) or is a
+        // marker's outline, no wider than a marker.
+        for (_, pts) in crate::chart::tests::polylines(&svg) {
+            let span = |f: fn(&(f64, f64)) -> f64| {
+                let v: Vec<f64> = pts.iter().map(f).collect();
+                v.iter().copied().fold(f64::MIN, f64::max)
+                    - v.iter().copied().fold(f64::MAX, f64::min)
+            };
+            let (w, h) = (span(|p| p.0), span(|p| p.1));
+            let marker = w <= 3.0 * POINT_RADIUS_PX && h <= 3.0 * POINT_RADIUS_PX;
+            let square = pts
+                .windows(2)
+                .all(|s| (s[0].0 - s[1].0).abs() < 1e-9 || (s[0].1 - s[1].1).abs() < 1e-9);
+            assert!(square || marker, "a joining line: {pts:?}");
+        }
+    }
+
+    #[test]
+    fn axis_ends_at_the_span() {
+        let s = spec();
+        assert_eq!(x_span(&s), s.span_days);
+        let mut s = spec();
+        s.span_days = None;
+        let (a, b) = x_span(&s).expect("points");
+        assert!(a < 11_000.0 && b > 11_000.0 + 4.0 * 780.0);
     }
 
     #[test]
@@ -352,6 +468,7 @@ mod tests {
     fn empty_overview_is_an_error() {
         let mut s = spec();
         s.points.clear();
+        s.span_days = None;
         assert!(overview_svg(&s).is_err());
     }
 }

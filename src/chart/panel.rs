@@ -60,7 +60,7 @@ impl Panel {
     /// The legend's text: the quantity and its unit.
     pub(crate) fn legend(&self) -> &'static str {
         match self {
-            Panel::Dla => "DLA (departure asymptote), deg",
+            Panel::Dla => "DLA, deg",
             Panel::ArriveDec => "Arrival declination, deg",
             Panel::DvTotal => "Total Δv, km/s",
         }

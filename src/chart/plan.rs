@@ -1,7 +1,8 @@
 //! What a chart shows, worked out once before anything is drawn: the
-//! layer's fields on the chart's lattice, the contour levels and their
-//! isolines, the shaded and blank regions, the lines of constant time of
-//! flight, the title, and (per image size) the ticks.
+//! layer's fields on the chart's lattice, the band around the 180-degree
+//! line, the contour levels and their isolines, the shaded and blank
+//! regions, the lines of constant time of flight, the title and subtitle,
+//! the warnings for the caller, and (per image size) the ticks.
 //!
 //! Everything here is in data coordinates (days past J2000 TDB across;
 //! days past J2000 TDB or days of flight up), so one [`Plan`] serves every
@@ -9,13 +10,16 @@
 
 use contour::ContourBuilder;
 
-use super::calendar::{civil_from_days_j2000, days_j2000_from_civil};
-use super::geometry::{Map, Rect};
+use super::band::ridge_band;
+use super::crowd::thin;
+use super::fields::{fields, Fields};
+use super::geometry::{layout, Map, Rect, REF_HEIGHT_PX, REF_WIDTH_PX};
 use super::isolines::{extend_one_sample, isolines, Isoline, Lattice};
-use super::levels::{c3_levels, explicit_levels, nice_ceil, vinf_levels};
+use super::levels::{c3_levels, explicit_levels, fit_levels, format_level, nice_ceil, vinf_levels};
 use super::panel::Panel;
-use super::{ChartError, ChartSpec};
-use crate::sweep::{CellStatus, Grid, SecondAxis};
+use super::ticks::{date_ticks, number_ticks, DateTicks};
+use super::{ChartError, ChartSpec, ChartWarning};
+use crate::sweep::SecondAxis;
 use crate::transfer::Endpoints;
 
 // Tick spacing at the reference size, logical px (chosen by eye; no
@@ -37,103 +41,6 @@ pub(crate) enum Contours<'e> {
     Window,
     /// One panel quantity; the endpoints turn excess speeds into delta-v.
     Panel(Panel, &'e Endpoints),
-}
-
-/// The layer's fields, row-major on the chart's lattice (x = departure).
-struct Fields {
-    lattice: Lattice,
-    c3: Vec<f64>,
-    vinf: Vec<f64>,
-    /// Transfer angle - 180 deg within 90 deg of 180, NaN elsewhere.
-    ridge: Vec<f64>,
-    angle_deg: Vec<f64>,
-    masked: Vec<bool>,
-}
-
-fn fields(grid: &Grid, layer: usize) -> Result<Fields, ChartError> {
-    if layer >= grid.layers.len() {
-        return Err(ChartError::NoSuchLayer {
-            layer,
-            layers: grid.layers.len(),
-        });
-    }
-    let (nx, ny) = (grid.depart.count, grid.second.count);
-    let lattice = Lattice {
-        nx,
-        ny,
-        x0: grid.depart.start_days,
-        dx: grid.depart.step_days,
-        y0: grid.second.start_days,
-        dy: grid.second.step_days,
-    };
-    let n = nx * ny;
-    if nx < 2 || ny < 2 {
-        return Err(ChartError::GridTooSmall { nx, ny });
-    }
-    let needed = grid.index(nx - 1, ny - 1, layer) + 1;
-    let arrays = [
-        grid.vinf_depart_km_s.len(),
-        grid.vinf_arrive_km_s.len(),
-        grid.transfer_angle_deg.len(),
-        grid.status.len(),
-    ];
-    if let Some(&got) = arrays.iter().find(|&&len| len < needed) {
-        return Err(ChartError::FieldSize {
-            expected: nx * ny * grid.layers.len(),
-            got,
-        });
-    }
-    let mut f = Fields {
-        lattice,
-        c3: vec![f64::NAN; n],
-        vinf: vec![f64::NAN; n],
-        ridge: vec![f64::NAN; n],
-        angle_deg: vec![f64::NAN; n],
-        masked: vec![true; n],
-    };
-    for i in 0..nx {
-        for j in 0..ny {
-            let idx = grid.index(i, j, layer);
-            if grid.status[idx] != CellStatus::Ok as u8 {
-                continue;
-            }
-            let k = j * nx + i;
-            let c3 = grid.c3_km2_s2(idx);
-            let vinf = grid.vinf_arrive_km_s[idx];
-            let angle = f64::from(grid.transfer_angle_deg[idx]);
-            f.masked[k] = false;
-            f.c3[k] = if c3.is_finite() { c3 } else { f64::NAN };
-            f.vinf[k] = if vinf.is_finite() { vinf } else { f64::NAN };
-            if angle.is_finite() {
-                f.angle_deg[k] = angle;
-                // Only the 180-degree crossing: the 0/360 wrap is NaN here.
-                if (angle - 180.0).abs() < 90.0 {
-                    f.ridge[k] = angle - 180.0;
-                }
-            }
-        }
-    }
-    Ok(f)
-}
-
-/// The panel's field on the chart's lattice: the quantity at every solved
-/// cell, NaN elsewhere.
-fn panel_field(spec: &ChartSpec<'_>, lat: &Lattice, panel: Panel, ends: &Endpoints) -> Vec<f64> {
-    let grid = spec.grid;
-    let mut out = vec![f64::NAN; lat.nx * lat.ny];
-    for i in 0..lat.nx {
-        for j in 0..lat.ny {
-            let idx = grid.index(i, j, spec.layer);
-            if grid.status[idx] != CellStatus::Ok as u8 {
-                continue;
-            }
-            let v = panel.value(grid, idx, ends);
-            if v.is_finite() {
-                out[j * lat.nx + i] = v;
-            }
-        }
-    }
-    out
 }
 
 /// A filled region in data coordinates: exterior ring and holes.
@@ -173,11 +80,11 @@ fn regions(values: &[f64], lat: &Lattice, threshold: f64) -> Result<Vec<Region>,
     Ok(out)
 }
 
-/// A field whose 0.5 isoline outlines the masked samples: every masked
-/// sample is above 0.5 and every unmasked one below, while a 3 x 3 box
-/// average sets how far above or below, so that staircase edges of the
-/// mask come out as straight diagonals instead of steps.
-fn mask_field(masked: &[bool], nx: usize, ny: usize) -> Vec<f64> {
+/// A field whose 0.5 isoline outlines the marked samples: every marked
+/// sample is above 0.5 and every other one below, while a 3 x 3 box
+/// average sets how far above or below, so that staircase edges come out
+/// as straight diagonals instead of steps.
+fn mask_field(marked: &[bool], nx: usize, ny: usize) -> Vec<f64> {
     let mut out = vec![0.0; nx * ny];
     for iy in 0..ny {
         for ix in 0..nx {
@@ -185,12 +92,12 @@ fn mask_field(masked: &[bool], nx: usize, ny: usize) -> Vec<f64> {
             let mut n = 0.0;
             for jy in iy.saturating_sub(1)..=(iy + 1).min(ny - 1) {
                 for jx in ix.saturating_sub(1)..=(ix + 1).min(nx - 1) {
-                    sum += if masked[jy * nx + jx] { 1.0 } else { 0.0 };
+                    sum += if marked[jy * nx + jx] { 1.0 } else { 0.0 };
                     n += 1.0;
                 }
             }
             let avg: f64 = sum / n;
-            out[iy * nx + ix] = if masked[iy * nx + ix] {
+            out[iy * nx + ix] = if marked[iy * nx + ix] {
                 avg.max(0.55)
             } else {
                 avg.min(0.45)
@@ -200,54 +107,44 @@ fn mask_field(masked: &[bool], nx: usize, ny: usize) -> Vec<f64> {
     out
 }
 
-/// Tick positions (days past J2000 TDB) at calendar boundaries, at most
-/// `max_ticks` of them.
-fn date_ticks(lo: f64, hi: f64, max_ticks: usize) -> Vec<f64> {
-    let (y0, m0, _) = civil_from_days_j2000(lo);
-    let (y1, m1, _) = civil_from_days_j2000(hi);
-    let first = y0 * 12 + i64::from(m0) - 1;
-    let last = y1 * 12 + i64::from(m1) - 1;
-    for step in [1i64, 2, 3, 4, 6, 12, 24, 60, 120] {
-        let mut ticks = Vec::new();
-        for mi in first..=last {
-            if mi.rem_euclid(step) != 0 {
-                continue;
-            }
-            let d = days_j2000_from_civil(mi.div_euclid(12), (mi.rem_euclid(12) + 1) as u32, 1);
-            if d >= lo - 1e-9 && d <= hi + 1e-9 {
-                ticks.push(d);
-            }
-        }
-        if ticks.len() <= max_ticks && (ticks.len() >= 3 || step == 1) {
-            if ticks.len() >= 3 {
-                return ticks;
-            }
-            break;
-        }
+/// The outline of the marked samples, smoothed ([`mask_field`]); empty
+/// when none is marked.
+fn outline(marked: &[bool], lat: &Lattice) -> Result<Vec<Region>, ChartError> {
+    if !marked.iter().any(|&m| m) {
+        return Ok(Vec::new());
     }
-    // Short spans: every n days at midnight TDB.
-    let span = hi - lo;
-    let step = [1.0, 2.0, 5.0, 7.0, 10.0, 15.0, 30.0]
-        .into_iter()
-        .find(|s| span / s <= max_ticks as f64)
-        .unwrap_or(30.0);
-    let mut t = ((lo + 0.5) / step).ceil() * step - 0.5;
-    let mut ticks = Vec::new();
-    while t <= hi + 1e-9 {
-        ticks.push(t);
-        t += step;
-    }
-    ticks
+    regions(&mask_field(marked, lat.nx, lat.ny), lat, 0.5)
 }
 
-/// Round-number ticks between `lo` and `hi`, at most about `max_ticks`.
-fn number_ticks(lo: f64, hi: f64, max_ticks: usize) -> Vec<f64> {
-    let step = nice_ceil((hi - lo) / max_ticks.max(1) as f64);
-    let mut t = (lo / step).ceil() * step;
+/// The part of the lattice's rectangle where arrival is not after
+/// departure, as one polygon in data coordinates (empty when none is):
+/// below the diagonal arrival = departure on an arrival-date chart, below
+/// a time of flight of zero on a time-of-flight chart.
+///
+/// # Method
+/// The rectangle clipped against the half-plane tof <= 0 (one step of
+/// Sutherland-Hodgman polygon clipping, tof being linear in both axes).
+fn before_polygon(lat: &Lattice, kind: SecondAxis) -> Vec<(f64, f64)> {
+    let tof = |p: (f64, f64)| match kind {
+        SecondAxis::Arrival => p.1 - p.0,
+        SecondAxis::TimeOfFlight => p.1,
+    };
+    let (x0, x1, y0, y1) = (lat.x0, lat.x_last(), lat.y0, lat.y_last());
+    let rect = [(x0, y0), (x1, y0), (x1, y1), (x0, y1)];
     let mut out = Vec::new();
-    while t <= hi + 1e-9 * step {
-        out.push(t);
-        t += step;
+    for n in 0..4 {
+        let (a, b) = (rect[(n + 3) % 4], rect[n]);
+        let (ta, tb) = (tof(a), tof(b));
+        if (ta <= 0.0) != (tb <= 0.0) {
+            let t = ta / (ta - tb);
+            out.push((a.0 + t * (b.0 - a.0), a.1 + t * (b.1 - a.1)));
+        }
+        if tb <= 0.0 {
+            out.push(b);
+        }
+    }
+    if out.len() < 3 {
+        out.clear();
     }
     out
 }
@@ -292,9 +189,148 @@ fn tof_lines(lat: &Lattice) -> Vec<TofLine> {
 /// Tick positions along both axes, data coordinates.
 pub(crate) struct Ticks {
     /// Departure dates, days past J2000 TDB.
-    pub(crate) x: Vec<f64>,
+    pub(crate) x: DateTicks,
     /// Arrival dates (days past J2000 TDB) or times of flight (days).
     pub(crate) y: Vec<f64>,
+    /// The arrival-date ticks' labels, when `y` holds dates.
+    pub(crate) y_dates: Option<DateTicks>,
+}
+
+/// The contour families a plan draws.
+#[derive(Default)]
+struct Families {
+    c3: Vec<Isoline>,
+    vinf: Vec<Isoline>,
+    panel: Option<(Panel, Vec<Isoline>)>,
+    limit: Vec<Isoline>,
+    shade: Vec<Region>,
+    max_c3: Option<f64>,
+    warnings: Vec<ChartWarning>,
+}
+
+/// `field` with the band's samples set to NaN.
+fn outside_band(field: &[f64], band: &[bool]) -> Vec<f64> {
+    field
+        .iter()
+        .zip(band)
+        .map(|(&v, &b)| if b { f64::NAN } else { v })
+        .collect()
+}
+
+/// Explicit `levels` (cleaned) fitted to `field`, with a warning for
+/// those outside it.
+fn user_levels(
+    levels: &[f64],
+    field: &[f64],
+    quantity: &'static str,
+    unit: &'static str,
+    warnings: &mut Vec<ChartWarning>,
+) -> Vec<f64> {
+    let (inside, outside, range) = fit_levels(&explicit_levels(levels), field.iter().copied());
+    if !outside.is_empty() {
+        warnings.push(ChartWarning::LevelsOutsideData {
+            quantity,
+            unit,
+            levels: outside,
+            range,
+        });
+    }
+    inside
+}
+
+/// The contour families of the main chart: C3 and v-infinity at the
+/// spec's levels (fitted to the data) or automatic ones, a C3 level equal
+/// to the limit left to the limit line; none in the band, none where
+/// lines crowd (`crowd`).
+fn window_families(
+    spec: &ChartSpec<'_>,
+    f: &Fields,
+    band: &[bool],
+    px_per_day: (f64, f64),
+) -> Result<Families, ChartError> {
+    let lat = f.lattice;
+    let mut warnings = Vec::new();
+    let c3_lv = match &spec.c3_levels {
+        Some(v) => user_levels(v, &f.c3, "C3", "km²/s²", &mut warnings),
+        None => c3_levels(f.c3.iter().copied()),
+    };
+    let vinf_lv = match &spec.vinf_levels {
+        Some(v) => user_levels(v, &f.vinf, "arrival v∞", "km/s", &mut warnings),
+        None => vinf_levels(f.vinf.iter().copied()),
+    };
+    let max_c3 = spec.max_c3.filter(|m| m.is_finite());
+    // A C3 level equal to the shaded limit is drawn once, as the limit.
+    let c3_lv: Vec<f64> = match max_c3 {
+        Some(max) => c3_lv
+            .into_iter()
+            .filter(|l| (l - max).abs() > 1e-9 * (1.0 + max.abs()))
+            .collect(),
+        None => c3_lv,
+    };
+    let c3 = outside_band(&f.c3, band);
+    let (limit, shade) = match max_c3 {
+        Some(max) => {
+            let lim = isolines(&c3, &lat, &[max])?;
+            // C3 <= max as -C3 >= -max, extended one sample into the
+            // mask (the mask is painted over it). The shade is a region,
+            // not a line: it keeps its smooth edge through the band.
+            let neg: Vec<f64> = extend_one_sample(&f.c3, lat.nx, lat.ny)
+                .iter()
+                .map(|c| -c)
+                .collect();
+            (lim, regions(&neg, &lat, -max)?)
+        }
+        None => (Vec::new(), Vec::new()),
+    };
+    let vinf = outside_band(&f.vinf, band);
+    Ok(Families {
+        c3: thin(isolines(&c3, &lat, &c3_lv)?, &c3, &lat, px_per_day),
+        vinf: thin(isolines(&vinf, &lat, &vinf_lv)?, &vinf, &lat, px_per_day),
+        panel: None,
+        limit,
+        shade,
+        max_c3,
+        warnings,
+    })
+}
+
+/// The contour family of a panel at its automatic levels, none in the
+/// band nor where lines crowd.
+fn panel_family(
+    spec: &ChartSpec<'_>,
+    f: &Fields,
+    (band, px_per_day): (&[bool], (f64, f64)),
+    panel: Panel,
+    ends: &Endpoints,
+) -> Result<Families, ChartError> {
+    let field = f.panel(spec.grid, spec.layer, panel, ends);
+    let levels = panel.levels(field.iter().copied());
+    let field = outside_band(&field, band);
+    let lines = thin(
+        isolines(&field, &f.lattice, &levels)?,
+        &field,
+        &f.lattice,
+        px_per_day,
+    );
+    Ok(Families {
+        panel: Some((panel, lines)),
+        ..Families::default()
+    })
+}
+
+/// "grid step 1 d" or "grid steps 2 d × 4 d" (departure, then second
+/// axis).
+fn step_text(lat: &Lattice) -> String {
+    let close = (lat.dx - lat.dy).abs() <= 1e-9 * lat.dx.abs().max(lat.dy.abs());
+    if close {
+        format!("grid step {} d", format_level(lat.dx))
+    } else {
+        format!(
+            "grid steps {} d × {} d",
+            format_level(lat.dx),
+            format_level(lat.dy)
+        )
+    }
 }
 
 /// Everything that decides what is drawn, shared by every format and size.
@@ -302,71 +338,27 @@ pub(crate) struct Plan<'s, 'g> {
     pub(crate) spec: &'s ChartSpec<'g>,
     /// The title as drawn.
     pub(crate) title: String,
+    /// The subtitle as drawn.
+    pub(crate) subtitle: String,
     fields: Fields,
     pub(crate) c3: Vec<Isoline>,
     pub(crate) vinf: Vec<Isoline>,
     /// The panel drawn and its lines (`None` on the main chart).
     pub(crate) panel: Option<(Panel, Vec<Isoline>)>,
     pub(crate) ridge: Vec<Isoline>,
+    /// The band around the 180-degree line, left without contours.
+    pub(crate) band: Vec<Region>,
+    /// The C3 limit drawn and shaded (main chart only).
+    pub(crate) max_c3: Option<f64>,
     pub(crate) limit: Vec<Isoline>,
     pub(crate) shade: Vec<Region>,
-    pub(crate) mask: Vec<Region>,
+    /// Cells without a solution (arrival after departure).
+    pub(crate) unsolved: Vec<Region>,
+    /// Where arrival is not after departure (empty when nowhere).
+    pub(crate) before: Vec<(f64, f64)>,
     /// Lines of constant time of flight (arrival-date charts only).
     pub(crate) tof: Vec<TofLine>,
-}
-
-/// Title, C3 lines, v-infinity lines, panel lines, C3 limit.
-type Families = (
-    String,
-    Vec<Isoline>,
-    Vec<Isoline>,
-    Option<(Panel, Vec<Isoline>)>,
-    Option<f64>,
-);
-
-/// The contour families of the main chart: C3 and v-infinity at the
-/// spec's levels or automatic ones, a C3 level equal to the limit left to
-/// the limit line.
-fn window_families(spec: &ChartSpec<'_>, fields: &Fields) -> Result<Families, ChartError> {
-    let lat = fields.lattice;
-    let c3_lv = match &spec.c3_levels {
-        Some(v) => explicit_levels(v),
-        None => c3_levels(fields.c3.iter().copied()),
-    };
-    let vinf_lv = match &spec.vinf_levels {
-        Some(v) => explicit_levels(v),
-        None => vinf_levels(fields.vinf.iter().copied()),
-    };
-    // A C3 level equal to the shaded limit is drawn once, as the limit.
-    let c3_lv: Vec<f64> = match spec.max_c3 {
-        Some(max) => c3_lv
-            .into_iter()
-            .filter(|l| (l - max).abs() > 1e-9 * (1.0 + max.abs()))
-            .collect(),
-        None => c3_lv,
-    };
-    let c3 = isolines(&fields.c3, &lat, &c3_lv)?;
-    let vinf = isolines(&fields.vinf, &lat, &vinf_lv)?;
-    Ok((spec.title.clone(), c3, vinf, None, spec.max_c3))
-}
-
-/// The contour family of a panel at its automatic levels; the title gets
-/// the quantity appended.
-fn panel_family(
-    spec: &ChartSpec<'_>,
-    lat: &Lattice,
-    panel: Panel,
-    ends: &Endpoints,
-) -> Result<Families, ChartError> {
-    let field = panel_field(spec, lat, panel, ends);
-    let levels = panel.levels(field.iter().copied());
-    let lines = isolines(&field, lat, &levels)?;
-    let title = if spec.title.is_empty() {
-        panel.title_suffix().to_string()
-    } else {
-        format!("{} — {}", spec.title, panel.title_suffix())
-    };
-    Ok((title, Vec::new(), Vec::new(), Some((panel, lines)), None))
+    pub(crate) warnings: Vec<ChartWarning>,
 }
 
 impl<'s, 'g> Plan<'s, 'g> {
@@ -375,35 +367,57 @@ impl<'s, 'g> Plan<'s, 'g> {
     /// # Errors
     /// [`ChartError::NoSuchLayer`], [`ChartError::GridTooSmall`],
     /// [`ChartError::FieldSize`] for an unusable grid;
+    /// [`ChartError::Crop`] for a crop window without two samples;
     /// [`ChartError::BadLattice`] or [`ChartError::Contour`] if
     /// contouring fails.
     pub(crate) fn new(
         spec: &'s ChartSpec<'g>,
         contours: Contours<'_>,
     ) -> Result<Plan<'s, 'g>, ChartError> {
-        let fields = fields(spec.grid, spec.layer)?;
-        let lat = fields.lattice;
-        let ridge = isolines(&fields.ridge, &lat, &[0.0])?;
-        let (title, c3, vinf, panel, max_c3) = match contours {
-            Contours::Window => window_families(spec, &fields)?,
-            Contours::Panel(panel, ends) => panel_family(spec, &lat, panel, ends)?,
-        };
-        let (limit, shade) = match max_c3 {
-            Some(max) if max.is_finite() => {
-                let lim = isolines(&fields.c3, &lat, &[max])?;
-                // C3 <= max as -C3 >= -max, extended one sample into the
-                // mask (the mask is painted over it).
-                let neg: Vec<f64> = extend_one_sample(&fields.c3, lat.nx, lat.ny)
-                    .iter()
-                    .map(|c| -c)
-                    .collect();
-                (lim, regions(&neg, &lat, -max)?)
+        let f = fields(spec)?;
+        let lat = f.lattice;
+        let plot = layout(REF_WIDTH_PX as u32, REF_HEIGHT_PX as u32).plot;
+        let px_per_day = (
+            (plot.x1 - plot.x0) / (lat.x_last() - lat.x0),
+            (plot.y1 - plot.y0) / (lat.y_last() - lat.y0),
+        );
+        let band = ridge_band(&f.ridge, &lat, px_per_day);
+        let ridge = isolines(&f.ridge, &lat, &[0.0])?;
+        let families = match contours {
+            Contours::Window => window_families(spec, &f, &band, px_per_day)?,
+            Contours::Panel(panel, ends) => {
+                panel_family(spec, &f, (&band, px_per_day), panel, ends)?
             }
-            _ => (Vec::new(), Vec::new()),
         };
-        let mask_field = mask_field(&fields.masked, lat.nx, lat.ny);
-        let mask = if fields.masked.iter().any(|&m| m) {
-            regions(&mask_field, &lat, 0.5)?
+        let composed = match &families.panel {
+            None => spec.title.clone(),
+            Some((panel, _)) if spec.title.is_empty() => panel.title_suffix().to_string(),
+            Some((panel, _)) => format!("{} — {}", spec.title, panel.title_suffix()),
+        };
+        let title = spec.slide.title.clone().unwrap_or(composed);
+        let subtitle = spec.slide.subtitle.clone().unwrap_or_else(|| {
+            if spec.subtitle.is_empty() {
+                step_text(&lat)
+            } else {
+                format!("{} · {}", spec.subtitle, step_text(&lat))
+            }
+        });
+        // Unsolved cells are outlined together with the cells before
+        // departure (painted over them), so no sliver opens between the
+        // two.
+        let unsolved = if f.unsolved.iter().any(|&u| u) {
+            let either: Vec<bool> = f
+                .unsolved
+                .iter()
+                .zip(&f.before)
+                .map(|(a, b)| *a || *b)
+                .collect();
+            outline(&either, &lat)?
+        } else {
+            Vec::new()
+        };
+        let before = if f.before.iter().any(|&b| b) {
+            before_polygon(&lat, spec.grid.second_kind)
         } else {
             Vec::new()
         };
@@ -414,15 +428,20 @@ impl<'s, 'g> Plan<'s, 'g> {
         Ok(Plan {
             spec,
             title,
-            fields,
-            c3,
-            vinf,
-            panel,
+            subtitle,
+            band: outline(&band, &lat)?,
+            fields: f,
+            c3: families.c3,
+            vinf: families.vinf,
+            panel: families.panel,
             ridge,
-            limit,
-            shade,
-            mask,
+            max_c3: families.max_c3,
+            limit: families.limit,
+            shade: families.shade,
+            unsolved,
+            before,
             tof,
+            warnings: families.warnings,
         })
     }
 
@@ -441,19 +460,29 @@ impl<'s, 'g> Plan<'s, 'g> {
             map.xmax,
             ((plot.x1 - plot.x0) / (X_TICK_SPACING_PX * k)) as usize,
         );
-        let y = match self.spec.grid.second_kind {
-            SecondAxis::Arrival => date_ticks(
-                map.ymin,
-                map.ymax,
-                ((plot.y1 - plot.y0) / (Y_DATE_TICK_SPACING_PX * k)) as usize,
-            ),
-            SecondAxis::TimeOfFlight => number_ticks(
-                map.ymin,
-                map.ymax,
-                ((plot.y1 - plot.y0) / (Y_NUMBER_TICK_SPACING_PX * k)) as usize,
-            ),
-        };
-        Ticks { x, y }
+        match self.spec.grid.second_kind {
+            SecondAxis::Arrival => {
+                let y = date_ticks(
+                    map.ymin,
+                    map.ymax,
+                    ((plot.y1 - plot.y0) / (Y_DATE_TICK_SPACING_PX * k)) as usize,
+                );
+                Ticks {
+                    x,
+                    y: y.at.clone(),
+                    y_dates: Some(y),
+                }
+            }
+            SecondAxis::TimeOfFlight => Ticks {
+                x,
+                y: number_ticks(
+                    map.ymin,
+                    map.ymax,
+                    ((plot.y1 - plot.y0) / (Y_NUMBER_TICK_SPACING_PX * k)) as usize,
+                ),
+                y_dates: None,
+            },
+        }
     }
 
     /// Transfer angle at the sample nearest to `(x, y)` (data
@@ -468,27 +497,19 @@ impl<'s, 'g> Plan<'s, 'g> {
         let a = self.fields.angle_deg[iy as usize * lat.nx + ix as usize];
         a.is_finite().then_some(a)
     }
+
+    /// The arrival date of a point, days past J2000 TDB.
+    pub(crate) fn arrival_days(&self, depart_days: f64, second: f64) -> f64 {
+        match self.spec.grid.second_kind {
+            SecondAxis::Arrival => second,
+            SecondAxis::TimeOfFlight => depart_days + second,
+        }
+    }
 }
 
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::chart::calendar::date_label_tdb;
-
-    #[test]
-    fn date_ticks_fall_on_month_starts() {
-        let lo = days_j2000_from_civil(2031, 1, 10);
-        let hi = days_j2000_from_civil(2031, 12, 20);
-        let t = date_ticks(lo, hi, 8);
-        assert!(t.len() >= 3 && t.len() <= 8, "{t:?}");
-        for d in &t {
-            assert!(date_label_tdb(*d).ends_with("-01"));
-            assert!(*d >= lo && *d <= hi);
-        }
-        // Short spans fall back to days.
-        let t = date_ticks(lo, lo + 20.0, 8);
-        assert!(t.len() >= 3 && t.len() <= 8, "{t:?}");
-    }
 
     #[test]
     fn tof_lines_are_round_diagonals_across_the_rectangle() {
@@ -523,5 +544,41 @@ mod tests {
             assert!(near(l.to.0, 100.0) || near(l.to.1, 350.0), "{l:?}");
             assert!(l.from.0 < l.to.0);
         }
+        // The region before departure: the triangle below the diagonal
+        // from (50, 50) to (100, 100), with the corner (100, 50).
+        let p = before_polygon(&lat, SecondAxis::Arrival);
+        assert_eq!(p.len(), 3, "{p:?}");
+        for v in [(50.0, 50.0), (100.0, 50.0), (100.0, 100.0)] {
+            assert!(p.iter().any(|q| near(q.0, v.0) && near(q.1, v.1)), "{p:?}");
+        }
+        // Area 50 * 50 / 2 by the shoelace formula.
+        let area: f64 = (0..p.len())
+            .map(|i| {
+                let (a, b) = (p[i], p[(i + 1) % p.len()]);
+                a.0 * b.1 - b.0 * a.1
+            })
+            .sum::<f64>()
+            / 2.0;
+        assert!(near(area.abs(), 1250.0), "{area}");
+        assert!(before_polygon(&lat, SecondAxis::TimeOfFlight).is_empty());
+    }
+
+    #[test]
+    fn grid_steps_in_the_subtitle() {
+        let mut lat = Lattice {
+            nx: 3,
+            ny: 3,
+            x0: 0.0,
+            dx: 1.0,
+            y0: 0.0,
+            dy: 1.0,
+        };
+        assert_eq!(step_text(&lat), "grid step 1 d");
+        lat.dx = 2.0;
+        lat.dy = 4.0;
+        assert_eq!(step_text(&lat), "grid steps 2 d × 4 d");
+        lat.dx = 0.025;
+        lat.dy = 0.02;
+        assert_eq!(step_text(&lat), "grid steps 0.025 d × 0.02 d");
     }
 }

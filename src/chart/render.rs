@@ -7,8 +7,9 @@ use super::draw;
 use super::encode::{self, check_size, ensure_font, SUPERSAMPLE};
 use super::geometry::layout;
 use super::panel::Panel;
+use super::pdf::svg_to_pdf;
 use super::plan::{Contours, Plan};
-use super::{ChartError, ChartSpec};
+use super::{ChartError, ChartSpec, ChartWarning};
 use crate::transfer::Endpoints;
 
 /// Default image width, px: the layout's reference size, a 4:3 slide of
@@ -26,20 +27,22 @@ pub const DEFAULT_HEIGHT_PX: u32 = 1350;
 ///
 /// let grid = synthetic_grid(60);
 /// let spec = ChartSpec {
-///     grid: &grid,
-///     layer: 0,
 ///     title: "Teodra → Kesh".to_string(),
 ///     subtitle: "Veyra system (invented)".to_string(),
-///     c3_levels: None,
-///     vinf_levels: None,
-///     markers: Vec::new(),
+///     c3_levels: Some(vec![12.0, 16.0, 500.0]),
 ///     max_c3: Some(20.0),
+///     ..ChartSpec::new(&grid)
 /// };
 /// let chart = Chart::window(&spec)?;
 /// let svg = chart.svg()?;
 /// let png = chart.png(900, 675)?;
+/// let pdf = chart.pdf()?;
 /// assert!(svg.contains("class=\"c3\""));
 /// assert!(png.starts_with(b"\x89PNG"));
+/// assert!(pdf.starts_with(b"%PDF-"));
+/// // 500 km²/s² lies above every C3 of this grid: not drawn, and said.
+/// assert_eq!(chart.warnings().len(), 1);
+/// assert!(chart.warnings()[0].to_string().starts_with("C3 level 500 km²/s² outside"));
 /// # Ok::<(), synodic::chart::ChartError>(())
 /// ```
 pub struct Chart<'s, 'g> {
@@ -81,6 +84,27 @@ impl<'s, 'g> Chart<'s, 'g> {
         Ok(Chart {
             plan: Plan::new(spec, Contours::Panel(panel, ends))?,
         })
+    }
+
+    /// What the caller should tell the user: explicit levels outside the
+    /// data (not drawn), and so on. Empty for most charts.
+    pub fn warnings(&self) -> &[ChartWarning] {
+        &self.plan.warnings
+    }
+
+    /// The plan, for the page layout.
+    pub(crate) fn plan(&self) -> &Plan<'s, 'g> {
+        &self.plan
+    }
+
+    /// The chart as a one-page PDF of 12 x 9 in (the SVG at 150 px per
+    /// inch), text embedded in DejaVu Sans ([`svg_to_pdf`]).
+    ///
+    /// # Errors
+    /// [`ChartError::Draw`] if drawing fails, [`ChartError::Pdf`] if the
+    /// conversion does.
+    pub fn pdf(&self) -> Result<Vec<u8>, ChartError> {
+        svg_to_pdf(&self.svg()?)
     }
 
     /// The chart as an SVG document of [`DEFAULT_WIDTH_PX`] x

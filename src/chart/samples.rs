@@ -12,9 +12,10 @@
 
 use super::calendar::days_j2000_from_civil;
 use super::{
-    render_panel_svg, render_svg, ChartError, ChartSpec, Marker, OverviewPoint, OverviewSpec, Panel,
+    render_panel_svg, render_svg, ChartError, ChartSpec, Marker, MarkerFigures, OverviewPoint,
+    OverviewSpec, Panel,
 };
-use crate::sweep::{layers_for, Axis, CellStatus, Grid, SecondAxis};
+use crate::sweep::{layers_for, Axis, CellStatus, Grid, Objective, SecondAxis};
 use crate::transfer::{Endpoints, TransferType};
 
 /// Samples along each axis of [`analytic_grid`].
@@ -164,12 +165,15 @@ pub fn panel_grid() -> Grid {
 
 /// The spec the chart tests draw [`analytic_grid`] with: explicit C3
 /// levels 10, 20, 30 (given out of order), v-infinity levels 3.5 and 4.5,
-/// a C3 limit of 25 and one marker at the C3 minimum.
+/// a C3 limit of 25 and one Type I marker at the C3 minimum with its
+/// figures from the closed forms (C3 5, v-infinity 3 + 2 (1/3)^2 +
+/// 2 (0.4)^2 = 3.5422 km/s; DLA and arrival declination of
+/// [`panel_grid`]: -47 + 94 * 200 / 398 = 0.236 deg and
+/// -25 + 50 * 360 / 597 = 5.151 deg; without burns, total delta-v is
+/// sqrt(5) = 2.236 km/s).
 pub fn analytic_spec(grid: &Grid) -> ChartSpec<'_> {
     let dc = analytic_centre_days();
     ChartSpec {
-        grid,
-        layer: 0,
         title: "Teodra → Kesh, 2031 opportunity".to_string(),
         subtitle: "Veyra system (invented), departures 2031".to_string(),
         c3_levels: Some(vec![30.0, 10.0, 20.0]),
@@ -180,15 +184,25 @@ pub fn analytic_spec(grid: &Grid) -> ChartSpec<'_> {
                 SecondAxis::Arrival => dc + 260.0,
                 SecondAxis::TimeOfFlight => 260.0,
             },
-            label: "C3 5.00 · 2031-07-20 → 2032-04-05".to_string(),
+            kind: TransferType::I,
+            name: "Type I".to_string(),
+            figures: MarkerFigures {
+                c3_km2_s2: Some(5.0),
+                vinf_arrive_km_s: Some(3.0 + 2.0 / 9.0 + 2.0 * 0.16),
+                dla_deg: Some(-47.0 + 94.0 * 200.0 / 398.0),
+                arrive_dec_deg: Some(-25.0 + 50.0 * 360.0 / 597.0),
+                dv_total_km_s: Some(5f64.sqrt()),
+            },
         }],
         max_c3: Some(25.0),
+        ..ChartSpec::new(grid)
     }
 }
 
 /// A span overview of ten invented optima, a Type I and a Type II every
-/// 780 days from 11,000 days past J2000 TDB; the last pair is flagged;
-/// C3 ceiling 11 km^2/s^2.
+/// 780 days from 11,000 days past J2000 TDB; the last pair is flagged
+/// `edge`; C3 ceiling 11 km^2/s^2; the span 2030-01-01 to 2040-01-01;
+/// best C3.
 pub fn overview_spec() -> OverviewSpec {
     let points = (0..5)
         .flat_map(|k| {
@@ -199,7 +213,11 @@ pub fn overview_spec() -> OverviewSpec {
                     + f64::from(k % 3)
                     + if kind == TransferType::II { 0.5 } else { 0.0 },
                 vinf_arrive_km_s: 3.0 + 0.2 * f64::from(k),
-                flagged: k == 4,
+                flags: if k == 4 {
+                    vec!["edge".to_string()]
+                } else {
+                    Vec::new()
+                },
             })
         })
         .collect();
@@ -208,6 +226,11 @@ pub fn overview_spec() -> OverviewSpec {
         subtitle: "Veyra system (invented)".to_string(),
         points,
         max_c3: Some(11.0),
+        span_days: Some((
+            days_j2000_from_civil(2030, 1, 1),
+            days_j2000_from_civil(2040, 1, 1),
+        )),
+        objective: Some(Objective::C3),
     }
 }
 

@@ -59,7 +59,13 @@ pub(crate) const LIMIT_RGB: RGBColor = RGBColor(0x1f, 0x7a, 0x5c);
 /// The region within the C3 limit.
 pub(crate) const SHADE_RGB: RGBColor = RGBColor(0xd9, 0xf0, 0xe3);
 /// Cells without a solution.
-pub(crate) const MASK_RGB: RGBColor = RGBColor(0xe3, 0xe3, 0xe3);
+pub(crate) const MASK_RGB: RGBColor = RGBColor(0xdc, 0xdc, 0xdc);
+/// Where arrival is not after departure: lighter than "no solution", a
+/// region no solver is asked about.
+pub(crate) const BEFORE_RGB: RGBColor = RGBColor(0xf1, 0xf1, 0xf1);
+/// The band around the 180-degree line left without contours: a tint of
+/// the line's purple.
+pub(crate) const BAND_RGB: RGBColor = RGBColor(0xf3, 0xee, 0xf7);
 /// Grid lines.
 pub(crate) const GRIDLINE_RGB: RGBColor = RGBColor(0xea, 0xea, 0xea);
 /// The plot frame and ticks.

@@ -12,15 +12,15 @@ use super::style::{
     C3_RGB, CAPTION, INK, MARKER_RGB, MASK_RGB, PANEL_RGB, PAPER, RIDGE_RGB, SHADE_RGB, VINF_RGB,
 };
 use super::{
-    render_panel_png, render_panel_svg, render_png, render_svg, ChartError, Panel,
-    DEFAULT_HEIGHT_PX, DEFAULT_WIDTH_PX,
+    render_panel_png, render_panel_svg, render_png, render_svg, Chart, ChartError, ChartSpec,
+    Panel, Slide, DEFAULT_HEIGHT_PX, DEFAULT_WIDTH_PX,
 };
 use crate::sweep::{Grid, SecondAxis};
 use crate::transfer::Endpoints;
 use plotters::style::RGBColor;
 
 /// `(class, points)` of every polyline.
-fn polylines(svg: &str) -> Vec<(String, Vec<(f64, f64)>)> {
+pub(super) fn polylines(svg: &str) -> Vec<(String, Vec<(f64, f64)>)> {
     let attr = |tag: &str, name: &str| -> Option<String> {
         let key = format!(" {name}=\"");
         let a = tag.find(&key)? + key.len();
@@ -109,12 +109,15 @@ fn svg_holds_one_line_per_level_and_their_labels() {
     let g = analytic_grid(SecondAxis::Arrival);
     let svg = render_svg(&spec(&g)).expect("svg");
     let lines = polylines(&svg);
-    // Each C3 and v-infinity level is one ring or arc on this grid.
-    assert_eq!(count(&lines, "c3"), 3);
-    assert_eq!(count(&lines, "vinf"), 2);
-    // The C3 limit line (C3 = 25) and the 180-degree line, cut in two
-    // by the blank block.
-    assert_eq!(count(&lines, "c3max"), 1);
+    // Each C3 level is a ring (C3 = 10 also cut by the blank block)
+    // that crosses the 180-degree line (tof = 250 d) twice: the band
+    // around the line cuts it into two pieces. So does the C3 limit
+    // line (C3 = 25). The v-infinity rings (centred on tof = 300 d)
+    // reach the band too.
+    assert_eq!(count(&lines, "c3"), 6);
+    assert!(count(&lines, "vinf") >= 2);
+    assert_eq!(count(&lines, "c3max"), 2);
+    // The 180-degree line, cut in two by the blank block.
     assert_eq!(count(&lines, "ridge"), 2);
     assert!(count(&lines, "tof") >= 3);
     // v-infinity lines are dashed, C3 lines are not.
@@ -125,8 +128,27 @@ fn svg_holds_one_line_per_level_and_their_labels() {
         assert!(t.iter().any(|x| x == label), "label {label} missing: {t:?}");
     }
     assert!(t.iter().any(|x| x.ends_with(" d")), "time-of-flight label");
-    assert!(t.contains(&"C3 5.00 · 2031-07-20 → 2032-04-05".to_string()));
+    // The callout quotes C3 and arrival v-infinity (3.5422 km/s, the
+    // closed form of samples::analytic_spec) over the dates.
+    assert!(
+        t.contains(&"Type I · C3 5.00 · v∞ 3.54".to_string()),
+        "{t:?}"
+    );
+    assert!(t.contains(&"2031-07-20 → 2032-04-05".to_string()));
     assert!(t.contains(&"Teodra → Kesh, 2031 opportunity".to_string()));
+    // The subtitle ends with the grid steps (2 d across, 3 d up).
+    assert!(
+        t.contains(&"Veyra system (invented), departures 2031 · grid steps 2 d × 3 d".to_string())
+    );
+    // Blank cells told apart: late departures before the first arrival
+    // date, unsolved short flights and the block.
+    assert!(
+        t.iter()
+            .filter(|x| *x == "Arrival before departure")
+            .count()
+            >= 1
+    );
+    assert!(t.contains(&"No solution".to_string()));
     assert!(t.contains(&CAPTION.to_string()));
     assert!(t.contains(&"Departure date (TDB)".to_string()));
     assert!(t.contains(&"Arrival date (TDB)".to_string()));
@@ -158,6 +180,134 @@ fn ridge_follows_the_180_degree_crossing_only() {
         }
     }
     assert!(n > 10);
+}
+
+#[test]
+fn lines_keep_out_of_the_band_around_180_degrees() {
+    // The 180-degree line is tof = 250 d: in px, the straight line
+    // through the map of (d, d + 250). Grid steps: 2 d across (6.1 px at
+    // the reference size), 3 d up (5.4 px), so the band reaches three
+    // steps, 18.3 px, either side (more than its 12 px minimum). Lines
+    // stop where a sample inside the band neighbours one outside, within
+    // one step of the edge.
+    let g = analytic_grid(SecondAxis::Arrival);
+    let map = default_map(&g);
+    let step_px = map.px(g.depart.start_days + 2.0) - map.px(g.depart.start_days);
+    let half = (crate::chart::BAND_STEPS * step_px).max(crate::chart::BAND_MIN_PX);
+    let d0 = dc() - 100.0;
+    let (a, b) = (
+        (map.px(d0), map.py(d0 + 250.0)),
+        (map.px(d0 + 200.0), map.py(d0 + 450.0)),
+    );
+    let dist = |p: (f64, f64)| {
+        let (ux, uy) = (b.0 - a.0, b.1 - a.1);
+        ((p.0 - a.0) * uy - (p.1 - a.1) * ux).abs() / ux.hypot(uy)
+    };
+    let svg = render_svg(&spec(&g)).expect("svg");
+    let mut near = 0;
+    for (class, pts) in polylines(&svg) {
+        if !["c3", "vinf", "c3max"].contains(&class.as_str()) {
+            continue;
+        }
+        for (x, y) in pts {
+            let d = dist((x / 2.0, y / 2.0));
+            assert!(
+                d >= half - step_px,
+                "{class} line {d} px from the 180-degree line"
+            );
+            if d < half + step_px {
+                near += 1;
+            }
+        }
+    }
+    assert!(near > 4, "lines reach the band: {near}");
+    // The line itself is drawn, once per piece.
+    assert!(svg.contains("class=\"ridge\""));
+}
+
+#[test]
+fn levels_outside_the_data_are_left_out_and_reported() {
+    // The analytic C3 field spans 5 to about 600 km²/s² on this grid:
+    // levels 2 and 700 lie outside it.
+    let g = analytic_grid(SecondAxis::Arrival);
+    let mut s = spec(&g);
+    s.c3_levels = Some(vec![2.0, 10.0, 700.0]);
+    s.vinf_levels = Some(vec![100.0]);
+    let chart = Chart::window(&s).expect("chart");
+    let w = chart.warnings();
+    assert_eq!(w.len(), 2, "{w:?}");
+    let text = w[0].to_string();
+    assert!(
+        text.starts_with("C3 levels 2, 700 km²/s² outside the chart's data (5 to "),
+        "{text}"
+    );
+    assert!(
+        w[1].to_string()
+            .starts_with("arrival v∞ level 100 km/s outside"),
+        "{}",
+        w[1]
+    );
+    let svg = chart.svg().expect("svg");
+    let t = texts(&svg);
+    // No v-infinity line is drawn: the legend does not list one.
+    assert!(!t.iter().any(|x| x == "Arrival v∞, km/s"), "{t:?}");
+    assert!(t.iter().any(|x| x == "Departure C3, km²/s²"));
+    assert_eq!(count(&polylines(&svg), "vinf"), 0);
+    // Automatic levels give no warning.
+    let auto = ChartSpec {
+        c3_levels: None,
+        vinf_levels: None,
+        ..spec(&g)
+    };
+    assert!(Chart::window(&auto).expect("chart").warnings().is_empty());
+}
+
+#[test]
+fn slide_controls_override_titles_and_crop() {
+    let g = analytic_grid(SecondAxis::Arrival);
+    let mut s = spec(&g);
+    let start = g.depart.start_days;
+    s.slide = Slide {
+        title: Some("Cargo window, 2031".to_string()),
+        subtitle: Some("Design review 3".to_string()),
+        crop_depart_days: Some((start + 100.0, start + 300.0)),
+        crop_second_days: Some((start + 300.0, start + 500.0)),
+    };
+    let svg = render_svg(&s).expect("svg");
+    let t = texts(&svg);
+    assert!(t.contains(&"Cargo window, 2031".to_string()));
+    assert!(t.contains(&"Design review 3".to_string()));
+    assert!(!t.iter().any(|x| x.contains("grid step")));
+    // The axes end at the window: ticks inside it only (2031-04-11 to
+    // 2031-10-28 across, 2031-10-28 to 2032-05-15 up).
+    assert!(t.contains(&"2031-05-01".to_string()));
+    assert!(!t.contains(&"2031-01-01".to_string()));
+    // Every line lies inside the window.
+    let map = Map {
+        xmin: start + 100.0,
+        xmax: start + 300.0,
+        ymin: start + 300.0,
+        ymax: start + 500.0,
+        plot: layout(DEFAULT_WIDTH_PX, DEFAULT_HEIGHT_PX).plot,
+    };
+    let lines = polylines(&svg);
+    assert!(count(&lines, "c3") > 0);
+    for (class, pts) in lines {
+        if class == "c3" || class == "vinf" {
+            for (x, y) in pts {
+                let (d, a) = (map.data_x(x / 2.0), map.data_y(y / 2.0));
+                assert!(d >= start + 99.9 && d <= start + 300.1, "{d}");
+                assert!(a >= start + 299.9 && a <= start + 500.1, "{a}");
+            }
+        }
+    }
+    // A panel keeps the overridden title as it is.
+    let svg = render_panel_svg(&s, Panel::Dla, &Endpoints::bare()).expect("svg");
+    assert!(texts(&svg).contains(&"Cargo window, 2031".to_string()));
+    // A window without two samples is an error naming the axis.
+    s.slide.crop_second_days = Some((start - 50.0, start - 10.0));
+    let e = render_svg(&s).expect_err("outside");
+    assert!(e.to_string().starts_with("the arrival crop window"), "{e}");
 }
 
 #[test]
@@ -197,13 +347,15 @@ fn a_c3_level_at_the_limit_is_drawn_once() {
     let g = analytic_grid(SecondAxis::Arrival);
     let mut s = spec(&g);
     s.max_c3 = Some(20.0);
+    // Two rings left (10 and 30), each in two pieces either side of the
+    // band around the 180-degree line; the limit ring likewise.
     let lines = polylines(&render_svg(&s).expect("svg"));
-    assert_eq!(count(&lines, "c3"), 2);
-    assert_eq!(count(&lines, "c3max"), 1);
+    assert_eq!(count(&lines, "c3"), 4);
+    assert_eq!(count(&lines, "c3max"), 2);
     s.max_c3 = None;
     let svg = render_svg(&s).expect("svg");
     let lines = polylines(&svg);
-    assert_eq!(count(&lines, "c3"), 3);
+    assert_eq!(count(&lines, "c3"), 6);
     assert_eq!(count(&lines, "c3max"), 0);
     assert!(!texts(&svg).iter().any(|t| t.starts_with("C3 ≤")));
 }
@@ -214,9 +366,11 @@ fn time_of_flight_charts_have_no_diagonals() {
     let svg = render_svg(&spec(&g)).expect("svg");
     let lines = polylines(&svg);
     assert_eq!(count(&lines, "tof"), 0);
-    assert_eq!(count(&lines, "c3"), 3);
+    assert_eq!(count(&lines, "c3"), 6);
     let t = texts(&svg);
     assert!(t.contains(&"Time of flight, days".to_string()));
+    // Flights of 60 days and more: nothing arrives before departure.
+    assert!(!t.iter().any(|x| x == "Arrival before departure"), "{t:?}");
     assert!(t.iter().any(|x| x == "300"), "tof ticks: {t:?}");
 }
 
@@ -307,7 +461,7 @@ fn png_decodes_at_the_requested_size_and_is_not_blank() {
 
 /// What every panel shares: the frame, no C3 or v-infinity family, no
 /// C3 limit, the panel's legend and title.
-fn check_panel_frame(svg: &str, panel: Panel) -> Vec<(String, Vec<(f64, f64)>)> {
+fn check_panel_frame(svg: &str, panel: Panel, callout: &str) -> Vec<(String, Vec<(f64, f64)>)> {
     let lines = polylines(svg);
     for class in ["c3", "vinf", "c3max"] {
         assert_eq!(count(&lines, class), 0, "{class} lines on a panel");
@@ -323,7 +477,8 @@ fn check_panel_frame(svg: &str, panel: Panel) -> Vec<(String, Vec<(f64, f64)>)> 
         panel.legend(),
         "Type I",
         "Type II",
-        "C3 5.00 · 2031-07-20 → 2032-04-05",
+        callout,
+        "2031-07-20 → 2032-04-05",
         "Departure date (TDB)",
         "Arrival date (TDB)",
         "No solution",
@@ -343,11 +498,13 @@ fn check_panel_frame(svg: &str, panel: Panel) -> Vec<(String, Vec<(f64, f64)>)> 
 fn dla_panel_draws_one_labelled_family() {
     let g = panel_grid();
     let svg = render_panel_svg(&spec(&g), Panel::Dla, &Endpoints::bare()).expect("svg");
-    let lines = check_panel_frame(&svg, Panel::Dla);
+    // The callout quotes the marker's DLA (0.236 deg), not its C3.
+    let lines = check_panel_frame(&svg, Panel::Dla, "Type I · DLA 0.2°");
     // DLA spans -47..47 deg: lines every 10 deg from -40 to 40, each a
-    // vertical line; the 10-degree line is cut in two by the blank
-    // block (DLA 7.3..12 deg there).
-    assert_eq!(count(&lines, "panel"), 10);
+    // vertical line crossing the 180-degree line (tof = 250 d) once,
+    // where the band around it cuts it in two (the 10-degree line's cut
+    // merges with the blank block, which lies on the 180-degree line).
+    assert_eq!(count(&lines, "panel"), 18);
     let t = texts(&svg);
     for l in [-40, -30, -20, -10, 0, 10, 20, 30, 40] {
         let label = format!("{l}°");
@@ -375,10 +532,15 @@ fn dla_panel_draws_one_labelled_family() {
 fn arrival_declination_panel_draws_one_labelled_family() {
     let g = panel_grid();
     let svg = render_panel_svg(&spec(&g), Panel::ArriveDec, &Endpoints::bare()).expect("svg");
-    let lines = check_panel_frame(&svg, Panel::ArriveDec);
-    // -25..25 deg: every 5 deg from -20 to 20, horizontal lines; the
-    // 10-degree line is cut in two by the blank block.
-    assert_eq!(count(&lines, "panel"), 10);
+    let lines = check_panel_frame(&svg, Panel::ArriveDec, "Type I · arrival dec 5.2°");
+    // -25..25 deg: every 5 deg from -20 to 20, horizontal lines, those
+    // arriving 250 days or more after the first departure (from -10 deg
+    // up) cut by the band around the 180-degree line.
+    assert!(
+        count(&lines, "panel") >= 9 + 6,
+        "{}",
+        count(&lines, "panel")
+    );
     let t = texts(&svg);
     for l in [-20, -15, -10, -5, 0, 5, 10, 15, 20] {
         let label = format!("{l}°");
@@ -390,7 +552,8 @@ fn arrival_declination_panel_draws_one_labelled_family() {
 fn total_dv_panel_is_denser_near_the_minimum() {
     let g = panel_grid();
     let svg = render_panel_svg(&spec(&g), Panel::DvTotal, &Endpoints::bare()).expect("svg");
-    let lines = check_panel_frame(&svg, Panel::DvTotal);
+    // sqrt(5) km/s at the marker.
+    let lines = check_panel_frame(&svg, Panel::DvTotal, "Type I · Δv 2.24");
     // Without burns to count, total delta-v is the departure excess
     // speed sqrt(C3): a bowl from sqrt(5) = 2.24 km/s.
     // Levels start just above it with 0.2 km/s steps and widen.
@@ -403,9 +566,9 @@ fn total_dv_panel_is_denser_near_the_minimum() {
         assert!(!t.iter().any(|x| x == absent), "{absent} drawn: {t:?}");
     }
     assert!(!t.iter().any(|x| x.ends_with('°')), "no degrees");
-    // One ring per level (the 3 and 3.5 rings run through the blank
-    // block and come out as one arc each).
-    assert_eq!(count(&lines, "panel"), levels.len());
+    // At least one piece per level (the rings cross the 180-degree
+    // line, whose band cuts them).
+    assert!(count(&lines, "panel") >= levels.len());
 }
 
 #[test]
@@ -521,7 +684,10 @@ fn panels_on_time_of_flight_grids_and_fields_without_values() {
     for panel in [Panel::Dla, Panel::ArriveDec] {
         let svg = render_panel_svg(&spec(&g), panel, &Endpoints::bare()).expect("svg");
         assert_eq!(count(&polylines(&svg), "panel"), 0);
-        assert!(texts(&svg).iter().any(|t| t == panel.legend()));
+        // Nothing drawn, nothing listed; the title still names it.
+        let t = texts(&svg);
+        assert!(!t.iter().any(|t| t == panel.legend()));
+        assert!(t.iter().any(|t| t.ends_with(panel.title_suffix())));
     }
 }
 

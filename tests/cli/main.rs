@@ -8,6 +8,7 @@ mod bad_trust;
 mod commands;
 mod examples;
 mod fuzz;
+mod labels;
 mod study;
 mod sweep;
 mod trust;

@@ -156,7 +156,7 @@ fn charts_are_written_and_redrawn_from_saved_files() {
         );
     }
     assert!(
-        labels.iter().any(|t| t.starts_with("Type I C3 12.8")),
+        labels.iter().any(|t| t.starts_with("Type I · C3 12.8")),
         "optimum marker label in {labels:?}"
     );
     let png = std::fs::read(d.join("synodic-out/chart.png")).expect("png");
@@ -179,7 +179,7 @@ fn charts_are_written_and_redrawn_from_saved_files() {
     let again = std::fs::read_to_string(d.join("synodic-out/again.svg")).expect("redrawn");
     assert!(again.matches("class=\"c3\"").count() >= 3);
     assert!(
-        texts(&again).iter().any(|t| t.starts_with("Type I C3")),
+        texts(&again).iter().any(|t| t.starts_with("Type I · C3")),
         "markers come back from windows.csv"
     );
 }

@@ -4,13 +4,13 @@ use std::path::{Path, PathBuf};
 
 use serde_json::Value;
 use synodic::chart::{
-    render_panel_png, render_panel_svg, render_png, render_svg, ChartSpec, Marker, Panel,
-    DEFAULT_HEIGHT_PX, DEFAULT_WIDTH_PX,
+    render_panel_png, render_panel_svg, render_png, render_svg, ChartSpec, Marker, MarkerFigures,
+    Panel, DEFAULT_HEIGHT_PX, DEFAULT_WIDTH_PX,
 };
 use synodic::export::{read_grid_csv, write_atomic};
 use synodic::sweep::{layers_for, Axis, SecondAxis};
 use synodic::time::{Epoch, J2000_JD};
-use synodic::transfer::Endpoints;
+use synodic::transfer::{Endpoints, TransferType};
 
 use super::print;
 use crate::cli::args::ChartArgs;
@@ -65,6 +65,8 @@ fn markers(dir: &Path, tof_axis: bool) -> Vec<Marker> {
     ) else {
         return Vec::new();
     };
+    let figure =
+        |rec: &csv::StringRecord, name: &str| -> Option<f64> { rec.get(col(name)?)?.parse().ok() };
     reader
         .records()
         .filter_map(Result::ok)
@@ -72,19 +74,25 @@ fn markers(dir: &Path, tof_axis: bool) -> Vec<Marker> {
         .filter_map(|rec| {
             let dj: f64 = rec.get(d)?.parse().ok()?;
             let aj: f64 = rec.get(a)?.parse().ok()?;
-            let c3: f64 = rec.get(c)?.parse().ok()?;
             let (dd, ad) = (dj - J2000_JD, aj - J2000_JD);
             let ridge = rec.get(fl).is_some_and(|f| f.contains("ridge"));
+            let kind = if rec.get(t)? == "II" {
+                TransferType::II
+            } else {
+                TransferType::I
+            };
             Some(Marker {
                 depart_days: dd,
                 second: if tof_axis { ad - dd } else { ad },
-                label: format!(
-                    "Type {}{} C3 {c3:.2} · {} → {}",
-                    rec.get(t)?,
-                    if ridge { " (ridge)" } else { "" },
-                    Epoch::from_days_since_j2000_tdb(dd).date_tdb(),
-                    Epoch::from_days_since_j2000_tdb(ad).date_tdb()
-                ),
+                kind,
+                name: format!("Type {kind}{}", if ridge { " (ridge)" } else { "" }),
+                figures: MarkerFigures {
+                    c3_km2_s2: rec.get(c)?.parse().ok(),
+                    vinf_arrive_km_s: figure(&rec, "vinf_arrive_km_s"),
+                    dla_deg: figure(&rec, "dla_deg"),
+                    arrive_dec_deg: figure(&rec, "arrive_dec_deg"),
+                    dv_total_km_s: figure(&rec, "dv_total_km_s"),
+                },
             })
         })
         .collect()
@@ -126,6 +134,7 @@ pub fn run(args: &ChartArgs) -> CliResult<Outcome> {
         vinf_levels: args.vinf_levels.clone(),
         markers: markers(&args.dir, !dated),
         max_c3: args.max_c3,
+        ..ChartSpec::new(&grid)
     };
     let panel = match &args.show {
         Some(name) => Some(Panel::from_name(name).ok_or_else(|| {

@@ -7,8 +7,8 @@ use std::time::Instant;
 use indicatif::{ProgressBar, ProgressDrawTarget, ProgressStyle};
 use serde::Serialize;
 use synodic::chart::{
-    render_panel_png, render_panel_svg, render_png, render_svg, ChartSpec, Marker, Panel,
-    DEFAULT_HEIGHT_PX, DEFAULT_WIDTH_PX,
+    render_panel_png, render_panel_svg, render_png, render_svg, ChartSpec, Marker, MarkerFigures,
+    Panel, DEFAULT_HEIGHT_PX, DEFAULT_WIDTH_PX,
 };
 use synodic::ephemeris::System;
 use synodic::export::{
@@ -21,7 +21,7 @@ use synodic::sweep::{
     grid_minima_with, sweep, Axis, CellStatus, Grid, Layer, Objective, RunOptions, SecondAxis,
     SweepSpec,
 };
-use synodic::transfer::Leg;
+use synodic::transfer::{Endpoints, Leg};
 use synodic::windows::{optima_of_grid, Borders, Bounds, Optimum};
 
 use super::study::{execute, folder_of, save_study, Origin, PartResult, Provenance, RunFlags};
@@ -364,24 +364,33 @@ fn refined_screen(optima: &[Optimum]) -> String {
 }
 
 /// Markers for the chart of `layer`: its refined optima.
-pub fn markers(optima: &[Optimum], kind: SecondAxis, layer: Layer) -> Vec<Marker> {
+pub fn markers(
+    optima: &[Optimum],
+    kind: SecondAxis,
+    layer: Layer,
+    ends: &Endpoints,
+) -> Vec<Marker> {
     optima
         .iter()
         .filter(|o| o.layer == layer)
-        .map(|o| Marker {
-            depart_days: o.depart_days,
-            second: match kind {
-                SecondAxis::Arrival => o.arrive_days,
-                SecondAxis::TimeOfFlight => o.arrive_days - o.depart_days,
-            },
-            label: format!(
-                "Type {}{} C3 {:.2} · {} → {}",
-                o.kind,
-                if o.ridge { " (ridge)" } else { "" },
-                o.figures.c3_km2_s2,
-                &day_of(o.depart_days),
-                &day_of(o.arrive_days)
-            ),
+        .map(|o| {
+            let f = &o.figures;
+            Marker {
+                depart_days: o.depart_days,
+                second: match kind {
+                    SecondAxis::Arrival => o.arrive_days,
+                    SecondAxis::TimeOfFlight => o.arrive_days - o.depart_days,
+                },
+                kind: o.kind,
+                name: format!("Type {}{}", o.kind, if o.ridge { " (ridge)" } else { "" }),
+                figures: MarkerFigures {
+                    c3_km2_s2: Some(f.c3_km2_s2),
+                    vinf_arrive_km_s: Some(f.vinf_arrive_km_s),
+                    dla_deg: Some(f.dla_deg),
+                    arrive_dec_deg: Some(f.arrive_dec_deg),
+                    dv_total_km_s: Some(ends.dv_total_km_s(f.vinf_depart_km_s, f.vinf_arrive_km_s)),
+                },
+            }
         })
         .collect()
 }
@@ -425,8 +434,9 @@ fn write_charts(
         subtitle,
         c3_levels: study.chart.c3_levels.clone(),
         vinf_levels: study.chart.vinf_levels.clone(),
-        markers: markers(optima, spec.second_kind, grid.layers[0]),
+        markers: markers(optima, spec.second_kind, grid.layers[0], &spec.ends),
         max_c3: study.limits.max_c3_km2_s2,
+        ..ChartSpec::new(grid)
     };
     let svg = out_dir.join("chart.svg");
     write_atomic(&svg, render_svg(&chart)?.as_bytes())?;
@@ -470,7 +480,7 @@ fn write_charts(
                 "{} ({} rev, {} branch)",
                 chart.title, layer.revs, layer.branch
             ),
-            markers: markers(optima, spec.second_kind, *layer),
+            markers: markers(optima, spec.second_kind, *layer, &spec.ends),
             ..chart.clone()
         };
         let stem = format!("chart-{}rev-{}", layer.revs, layer.branch);

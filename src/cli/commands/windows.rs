@@ -249,7 +249,12 @@ fn overview(
             },
             c3_km2_s2: r.c3_km2_s2,
             vinf_arrive_km_s: r.vinf_arrive_km_s,
-            flagged: !r.flags.is_empty(),
+            flags: r
+                .flags
+                .split(';')
+                .filter(|f| !f.is_empty())
+                .map(str::to_string)
+                .collect(),
         })
         .collect();
     OverviewSpec {
@@ -258,14 +263,15 @@ fn overview(
             system.bodies[from].name, system.bodies[to].name
         ),
         subtitle: format!(
-            "{} · departures {} to {} · best {} per opportunity and Type; hollow = flagged",
+            "{} · departures {} to {}",
             system.name,
             &day_of(plan.span.0),
             &day_of(plan.span.1),
-            plan.options.objective.name()
         ),
         points,
         max_c3: plan.limits.max_c3,
+        span_days: Some(plan.span),
+        objective: Some(plan.options.objective),
     }
 }
 
