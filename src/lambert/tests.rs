@@ -69,6 +69,19 @@ fn check_arc(p: &LambertProblem, s: &LambertSolution) -> (f64, f64, f64, f64) {
     (miss.max(dv2), (e1 - e2).abs() / escale, dh, areal)
 }
 
+/// Nominal solar radius, km: IAU 2015 Resolution B3 (695 700 km).
+const SUN_RADIUS_KM: f64 = 695_700.0;
+
+/// Periapsis radius of the conic leaving r1 with v1, km:
+/// `r_p = h^2 / (mu (1 + e))`, `e^2 = 1 + 2 E h^2 / mu^2` (Bate, Mueller &
+/// White 1971, ch. 1).
+fn periapsis_radius_km(p: &LambertProblem, s: &LambertSolution) -> f64 {
+    let h2 = p.r1.cross(&s.v1).norm_squared();
+    let energy = 0.5 * s.v1.norm_squared() - p.mu / p.r1.norm();
+    let e = (1.0 + 2.0 * energy * h2 / (p.mu * p.mu)).max(0.0).sqrt();
+    h2 / (p.mu * (1.0 + e))
+}
+
 /// Asserts all invariants of `check_arc` within `tol`.
 fn assert_arc(p: &LambertProblem, s: &LambertSolution, tol: f64) {
     let (miss, de, dh, da) = check_arc(p, s);
@@ -729,8 +742,16 @@ proptest! {
             let (miss, de, dh, da) = check_arc(&p, s);
             // Tolerance: the landing 2e-10, five times the largest seen
             // (4e-11, long multi-revolution arcs in the propagator); the
-            // invariants ARC_TOL (2e-15 seen).
-            prop_assert!(miss < 2e-10 && de < ARC_TOL && dh < ARC_TOL && da < ARC_TOL,
+            // invariants ARC_TOL (2e-15 seen). Arcs whose periapsis falls
+            // inside the Sun (the fast, long-way retrograde arcs the
+            // generator draws can pass within a few hundred km of the
+            // point mass) go through the central body -- sweeps flag them
+            // `periapsis-inside` -- and propagating through such a pass
+            // loses digits as r / r_p grows (1.5e-9 seen at r / r_p = 1.5e6):
+            // their landing is not asserted, their invariants are.
+            let landing_meaningful = periapsis_radius_km(&p, s) > SUN_RADIUS_KM;
+            prop_assert!((miss < 2e-10 || !landing_meaningful)
+                && de < ARC_TOL && dh < ARC_TOL && da < ARC_TOL,
                 "{:e} {:e} {:e} {:e} for {:?}", miss, de, dh, da, s);
         }
     }
